@@ -1,0 +1,301 @@
+/**
+ * From the parsed file to the engine's Design: operands become bit lists,
+ * gates and assigns become cells (one expression cell per assigned bit),
+ * ordered connections get their port names, unnamed gates get names, and
+ * the top module is found. Problems that need a whole-design view (an
+ * undeclared net, a wrong width on a gate pin) are left to lint.
+ */
+import { EngineError } from '../errors';
+import type { Bit, Cell, Design, Expr, Instance, Module, NetDecl, Signal, SourceLoc } from '../model';
+import type { Operand, RawAssign, RawDecl, RawExpr, RawGate, RawInstance, RawModule } from './ast';
+
+interface Context {
+  fileName: string;
+  timescale?: string;
+  top?: string;
+}
+
+/** No single connection or assignment may name more bits than this (guards against `{100000{…}}`). */
+const MAX_BITS = 1 << 20;
+
+export function elaborate(raw: RawModule[], ctx: Context): Design {
+  const fail = (loc: SourceLoc, message: string): never => {
+    throw new EngineError('parse', `${ctx.fileName}:${loc.line}:${loc.column}: ${message}`, { loc });
+  };
+  const byName = new Map<string, RawModule>();
+  for (const m of raw) {
+    const old = byName.get(m.name);
+    if (old) fail(m.loc, `module '${m.name}' is defined twice (first at line ${old.loc.line})`);
+    byName.set(m.name, m);
+  }
+  const modules = raw.map((m) => new ModuleElaborator(m, byName, fail).run());
+  const design: Design = { top: chooseTop(raw, ctx, fail), modules };
+  if (ctx.timescale !== undefined) design.timescale = ctx.timescale;
+  return design;
+}
+
+/** The module no other module instances (or the caller's choice). */
+function chooseTop(raw: RawModule[], ctx: Context, fail: (loc: SourceLoc, m: string) => never): string {
+  const where = raw[0].loc;
+  if (ctx.top !== undefined) {
+    if (!raw.some((m) => m.name === ctx.top)) {
+      fail(where, `top module '${ctx.top}' is not defined; modules in the file: ${raw.map((m) => m.name).join(', ')}`);
+    }
+    return ctx.top;
+  }
+  if (raw.length === 1) return raw[0].name;
+  const instanced = new Set(raw.flatMap((m) => m.items.flatMap((it) => (it.k === 'instance' && it.module !== m.name ? [it.module] : []))));
+  const roots = raw.filter((m) => !instanced.has(m.name));
+  if (roots.length === 1) return roots[0].name;
+  if (roots.length === 0) return fail(where, 'every module is instanced by another one (recursive instancing?); choose the top module explicitly');
+  return fail(
+    where,
+    `cannot tell the top module: ${roots.map((m) => `'${m.name}'`).join(', ')} are not instanced by any other module; choose the top module explicitly or remove the unused ones`,
+  );
+}
+
+export function rangeIndices(range: { msb: number; lsb: number }): number[] {
+  const step = range.msb >= range.lsb ? -1 : 1;
+  const out: number[] = [];
+  for (let i = range.msb; ; i += step) {
+    out.push(i);
+    if (i === range.lsb) return out;
+  }
+}
+
+function operandText(op: Operand): string {
+  switch (op.k) {
+    case 'ref':
+      return op.name;
+    case 'bit':
+      return `${op.name}[${op.index}]`;
+    case 'part':
+      return `${op.name}[${op.msb}:${op.lsb}]`;
+    case 'const':
+      return op.text;
+    case 'concat':
+      return `{${op.items.map(operandText).join(', ')}}`;
+    case 'repl':
+      return `{${op.count}{${op.items.map(operandText).join(', ')}}}`;
+  }
+}
+
+const bitLabel = (b: Bit) => ('const' in b ? `1'b${b.const}` : b.index === null ? b.net : `${b.net}[${b.index}]`);
+
+class ModuleElaborator {
+  private readonly used = new Set<string>();
+  private gateCounter = 0;
+
+  constructor(
+    private readonly raw: RawModule,
+    private readonly modules: Map<string, RawModule>,
+    private readonly fail: (loc: SourceLoc, message: string) => never,
+  ) {}
+
+  run(): Module {
+    const { raw } = this;
+    const nets: NetDecl[] = [...raw.decls.values()].map((d) => ({ name: d.name, range: d.range, loc: d.loc }));
+    const ports = raw.ports.map((p) => ({ name: p.name, direction: raw.decls.get(p.name)!.direction! }));
+    this.reserveExplicitNames();
+    const cells: Cell[] = [];
+    const instances: Instance[] = [];
+    for (const item of raw.items) {
+      if (item.k === 'gate') cells.push(this.gate(item));
+      else if (item.k === 'assign') cells.push(...this.assign(item));
+      else instances.push(this.instance(item));
+    }
+    return { name: raw.name, ports, nets, cells, instances, loc: raw.loc };
+  }
+
+  /** Nets, named gates and instances share one name space (IEEE 1364 §12.7). */
+  private reserveExplicitNames(): void {
+    for (const name of this.raw.decls.keys()) this.used.add(name);
+    for (const item of this.raw.items) {
+      const name = item.k === 'assign' ? null : item.name;
+      if (name === null) continue;
+      if (this.used.has(name)) {
+        const what = this.raw.decls.has(name) ? 'a net' : 'another gate or instance';
+        this.fail(item.loc, `name '${name}' is already used by ${what} in module '${this.raw.name}'`);
+      }
+      this.used.add(name);
+    }
+  }
+
+  private freshName(base: string, numbered: boolean): string {
+    let name = numbered ? `${base}${++this.gateCounter}` : base;
+    for (let n = 2; this.used.has(name); n++) name = numbered ? `${base}${++this.gateCounter}` : `${base}$${n}`;
+    this.used.add(name);
+    return name;
+  }
+
+  private decl(name: string): RawDecl | undefined {
+    return this.raw.decls.get(name);
+  }
+
+  /** Bits of an operand, most significant first. `width` sizes an unsized constant. */
+  private bits(op: Operand, width: number | null): Signal {
+    return this.collectBits(op, width, []);
+  }
+
+  private collectBits(op: Operand, width: number | null, out: Bit[]): Bit[] {
+    const push = (b: Bit) => {
+      if (out.length >= MAX_BITS) this.fail(op.loc, `more than ${MAX_BITS} bits in one connection`);
+      out.push(b);
+    };
+    switch (op.k) {
+      case 'ref': {
+        const range = this.decl(op.name)?.range;
+        if (!range) push({ net: op.name, index: null });
+        else for (const index of rangeIndices(range)) push({ net: op.name, index });
+        break;
+      }
+      case 'bit':
+        push({ net: op.name, index: op.index });
+        break;
+      case 'part': {
+        const range = this.decl(op.name)?.range;
+        if (range && op.msb !== op.lsb && range.msb !== range.lsb && op.msb > op.lsb !== range.msb > range.lsb) {
+          this.fail(
+            op.loc,
+            `part select ${op.name}[${op.msb}:${op.lsb}] runs opposite to the declaration [${range.msb}:${range.lsb}]; write ${op.name}[${op.lsb}:${op.msb}]`,
+          );
+        }
+        for (const index of rangeIndices(op)) push({ net: op.name, index });
+        break;
+      }
+      case 'const': {
+        const w = op.value.width ?? width;
+        if (w === null) this.fail(op.loc, `unsized constant ${op.text} needs a size here, e.g. 1'b0`);
+        for (let i = w! - 1; i >= 0; i--) push({ const: Number((op.value.value >> BigInt(i)) & 1n) as 0 | 1 });
+        break;
+      }
+      case 'concat':
+        for (const item of op.items) this.collectBits(item, null, out);
+        break;
+      case 'repl':
+        for (let n = 0; n < op.count; n++) for (const item of op.items) this.collectBits(item, null, out);
+        break;
+    }
+    return out;
+  }
+
+  private gate(g: RawGate): Cell {
+    const [output, ...inputs] = g.terminals.map((t) => this.bits(t, 1));
+    const pins: Record<string, Signal> = { y: output };
+    inputs.forEach((s, i) => (pins[`i${i}`] = s));
+    const name = g.name ?? this.freshName('g$', true);
+    return { name, kind: g.kind, pins, delay: { y: g.delay }, loc: g.loc };
+  }
+
+  private instance(inst: RawInstance): Instance {
+    const target = this.modules.get(inst.module);
+    const portWidth = (port: string) => {
+      const range = target?.decls.get(port)?.range;
+      return range === undefined ? null : range === null ? 1 : Math.abs(range.msb - range.lsb) + 1;
+    };
+    const connections: Record<string, Signal> = {};
+    if (inst.named) {
+      for (const c of inst.named) connections[c.port] = c.operand ? this.bits(c.operand, portWidth(c.port)) : [];
+    } else if (inst.ordered && inst.ordered.length > 0) {
+      if (!target) {
+        this.fail(inst.loc, `module '${inst.module}' is not defined in this file; define it, or connect its ports by name (.a(x))`);
+      }
+      if (inst.ordered.length > target!.ports.length) {
+        this.fail(inst.loc, `instance '${inst.name}' has ${inst.ordered.length} connections but module '${inst.module}' has ${target!.ports.length} ports`);
+      }
+      inst.ordered.forEach((op, i) => {
+        const port = target!.ports[i].name;
+        connections[port] = op ? this.bits(op, portWidth(port)) : [];
+      });
+    }
+    return { name: inst.name, module: inst.module, connections, loc: inst.loc };
+  }
+
+  /**
+   * `assign s[3:0] = a[3:0] ^ b[3:0];` becomes one expression cell per bit.
+   * Operands are as wide as the target or 1 bit (zero-extended, as Verilog
+   * sizes operands to the assignment: IEEE 1364 §5.4); constants may have
+   * any width.
+   */
+  private assign(a: RawAssign): Cell[] {
+    const target = this.bits(a.lhs, null);
+    const constBit = target.find((b) => 'const' in b);
+    if (constBit) this.fail(a.lhs.loc, `cannot assign to the constant in ${operandText(a.lhs)}; assign to a net`);
+    const width = target.length;
+    const operandBits = new Map<Operand, Signal>();
+    this.checkWidths(a.rhs, width, operandText(a.lhs), operandBits);
+    return target.map((bit, k) => {
+      const pins: Record<string, Signal> = { y: [bit] };
+      const pinOf = new Map<string, string>();
+      const pinFor = (b: Bit & { net: string }): string => {
+        const key = `${b.net}\u0000${b.index}`;
+        let pin = pinOf.get(key);
+        if (!pin) {
+          pin = `i${pinOf.size}`;
+          pinOf.set(key, pin);
+          pins[pin] = [b];
+        }
+        return pin;
+      };
+      const expr = this.bitExpr(a.rhs, width - 1 - k, operandBits, pinFor);
+      const name = this.freshName(`assign$${bitLabel(bit)}`, false);
+      return { name, kind: 'expr', pins, delay: { y: a.delay }, expr, loc: a.loc } satisfies Cell;
+    });
+  }
+
+  private checkWidths(e: RawExpr, width: number, target: string, operandBits: Map<Operand, Signal>): void {
+    switch (e.k) {
+      case 'not':
+        return this.checkWidths(e.a, width, target, operandBits);
+      case 'bin':
+        this.checkWidths(e.a, width, target, operandBits);
+        return this.checkWidths(e.b, width, target, operandBits);
+      case 'cond':
+        this.checkWidths(e.c, 1, 'the condition of ? :', operandBits);
+        this.checkWidths(e.t, width, target, operandBits);
+        return this.checkWidths(e.f, width, target, operandBits);
+      case 'const':
+        return;
+      default: {
+        const bits = this.bits(e, null);
+        operandBits.set(e, bits);
+        if (bits.length !== width && bits.length !== 1) {
+          this.fail(
+            e.loc,
+            `operand ${operandText(e)} is ${bits.length} bits wide but ${target} is ${width}; ` +
+              `Skiplane splits an assign bit by bit, so each operand must be ${width} bit${width === 1 ? '' : 's'} or 1 bit wide`,
+          );
+        }
+      }
+    }
+  }
+
+  /** Bit `i` (0 = least significant) of an expression, as an Expr over the cell's pins. */
+  private bitExpr(e: RawExpr, i: number, operandBits: Map<Operand, Signal>, pinFor: (b: Bit & { net: string }) => string): Expr {
+    const rec = (x: RawExpr, bit: number) => this.bitExpr(x, bit, operandBits, pinFor);
+    switch (e.k) {
+      case 'not':
+        return { op: 'not', a: rec(e.a, i) };
+      case 'bin': {
+        const a = rec(e.a, i);
+        const b = rec(e.b, i);
+        return e.op === 'xnor' ? { op: 'not', a: { op: 'xor', a, b } } : { op: e.op, a, b };
+      }
+      case 'cond': {
+        // The condition is self-determined (IEEE 1364 §5.1.13): a constant is true when nonzero.
+        const s: Expr = e.c.k === 'const' ? { op: 'const', value: e.c.value.value !== 0n ? 1 : 0 } : rec(e.c, 0);
+        return { op: 'mux', s, t: rec(e.t, i), f: rec(e.f, i) };
+      }
+      case 'const': {
+        const w = e.value.width ?? 32;
+        return { op: 'const', value: i < w ? (Number((e.value.value >> BigInt(i)) & 1n) as 0 | 1) : 0 };
+      }
+      default: {
+        const bits = operandBits.get(e)!;
+        if (i >= bits.length) return { op: 'const', value: 0 }; // zero extension
+        const b = bits[bits.length - 1 - i];
+        return 'const' in b ? { op: 'const', value: b.const } : { op: 'in', pin: pinFor(b) };
+      }
+    }
+  }
+}
