@@ -4,7 +4,7 @@
  * random acyclic netlists of random cells.
  */
 import fc from 'fast-check';
-import type { FlatBus, FlatCell, FlatNetlist, FlatScope } from '../../../src/engine/flat';
+import type { AdderPorts, FlatBus, FlatCell, FlatNetlist, FlatScope } from '../../../src/engine/flat';
 import { CELL_PINS, type CellKind, type Delay, type Expr } from '../../../src/engine/model';
 
 export type DelaySpec = number | [rise: number, fall: number] | Delay;
@@ -124,6 +124,34 @@ export function flatOf(spec: FlatSpec): FlatNetlist {
     scope: { name: '', module: spec.top ?? 'top', buses: [...inputs, ...outputs, ...wires, ...scalars], children },
     timescale: spec.timescale ?? '',
   };
+}
+
+/** A ripple-carry adder of full adders (s 5, co 3), with or without carry-in/out. */
+export function rippleFlat(n: number, opts: { cin?: boolean; cout?: boolean } = {}): { flat: FlatNetlist; ports: AdderPorts } {
+  const hasCin = opts.cin ?? true;
+  const hasCout = opts.cout ?? true;
+  const carry = (i: number) => (i === 0 ? (hasCin ? 'cin' : 'zero') : i === n && hasCout ? 'cout' : `c${i}`);
+  const cells: CellSpec[] = [];
+  if (!hasCin) cells.push({ kind: 'xor', name: 'tie0', out: 'zero', in: ['a[0]', 'a[0]'] });
+  for (let i = 0; i < n; i++) {
+    cells.push({ kind: 'fa', name: `fa${i}`, out: { s: `s[${i}]`, co: carry(i + 1) }, in: [`a[${i}]`, `b[${i}]`, carry(i)], delay: { s: 5, co: 3 } });
+  }
+  const flat = flatOf({
+    inputs: [`a[${n - 1}:0]`, `b[${n - 1}:0]`, ...(hasCin ? ['cin'] : [])],
+    outputs: [`s[${n - 1}:0]`, ...(hasCout ? ['cout'] : [])],
+    cells,
+  });
+  const bus = (name: string) => flat.scope.buses.find((b) => b.name === name)!.bits;
+  const ports: AdderPorts = {
+    width: n,
+    a: bus('a'),
+    b: bus('b'),
+    cin: hasCin ? bus('cin')[0] : null,
+    sum: bus('s'),
+    cout: hasCout ? bus('cout')[0] : null,
+    names: { a: 'a', b: 'b', cin: hasCin ? 'cin' : null, sum: 's', cout: hasCout ? 'cout' : null },
+  };
+  return { flat, ports };
 }
 
 // ---------------------------------------------------------------------------
