@@ -232,28 +232,33 @@ export class TimingSimulator {
   /** Evaluate every dirty cell at time t and schedule its output changes (SPEC §3). */
   private evaluateDirty(t: number): void {
     const c = this.c;
+    const { outStart, outNets, rise, fall } = c;
     const wheel = this.wheel;
     const values = this.values;
-    for (let i = 0; i < this.dirtyCount; i++) {
-      const cell = this.dirty[i];
-      this.isDirty[cell] = 0;
-      for (let pin = c.outStart[cell], end = c.outStart[cell + 1]; pin < end; pin++) {
+    const dirty = this.dirty;
+    const isDirty = this.isDirty;
+    const transport = this.transport;
+    const pending = this.pending;
+    const scheduled = this.scheduled;
+    for (let i = 0, n = this.dirtyCount; i < n; i++) {
+      const cell = dirty[i];
+      isDirty[cell] = 0;
+      for (let pin = outStart[cell], end = outStart[cell + 1]; pin < end; pin++) {
         const v = evalPin(c, pin, values);
-        const delay = v ? c.rise[pin] : c.fall[pin];
-        if (this.transport) {
-          if (v !== this.scheduled[pin]) {
-            this.scheduled[pin] = v;
-            wheel.schedule(t + delay, pin, v);
+        if (transport) {
+          if (v !== scheduled[pin]) {
+            scheduled[pin] = v;
+            wheel.schedule(t + (v ? rise[pin] : fall[pin]), pin, v);
           }
           continue;
         }
-        const pe = this.pending[pin];
+        const pe = pending[pin];
         if (pe !== NONE) {
           if (wheel.value[pe] === v) continue; // a pending change to v stays
           wheel.dead[pe] = 1; // the glitch is swallowed
-          this.pending[pin] = NONE;
+          pending[pin] = NONE;
         }
-        if (v !== values[c.outNets[pin]]) this.pending[pin] = wheel.schedule(t + delay, pin, v);
+        if (v !== values[outNets[pin]]) pending[pin] = wheel.schedule(t + (v ? rise[pin] : fall[pin]), pin, v);
       }
     }
     this.dirtyCount = 0;
