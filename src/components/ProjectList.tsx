@@ -1,0 +1,127 @@
+/** Screen 1, Projects: every project you belong to, and a form to start one. */
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { createColumnHelper } from '@tanstack/react-table';
+import { useState } from 'react';
+import { useForm } from 'react-hook-form';
+import { z } from 'zod';
+import { api } from './api';
+import { DataTable } from './DataTable';
+import { ago, utc } from './format';
+import { withQuery } from './query';
+import { ErrorText, Field, Loading, Notice, Panel, RoleChip } from './ui';
+
+export interface ProjectRow {
+  id: string;
+  name: string;
+  description: string;
+  role: string;
+  netlistCount: number;
+  lastActivityAt: string | null;
+}
+
+const col = createColumnHelper<ProjectRow>();
+const columns = [
+  col.accessor('name', {
+    header: 'Project',
+    cell: (c) => (
+      <div>
+        <a href={`/projects/${c.row.original.id}`} className="font-medium">
+          {c.getValue()}
+        </a>
+        {c.row.original.description && <div className="max-w-xl truncate text-[12px] text-muted">{c.row.original.description}</div>}
+      </div>
+    ),
+  }),
+  col.accessor('netlistCount', { header: 'Netlists', cell: (c) => <span className="mono">{c.getValue()}</span> }),
+  col.accessor('lastActivityAt', {
+    header: 'Last activity',
+    cell: (c) => (
+      <span className="mono text-[12px]" title={utc(c.getValue())}>
+        {utc(c.getValue())} <span className="text-muted">({ago(c.getValue())})</span>
+      </span>
+    ),
+  }),
+  col.accessor('role', { header: 'Your role', cell: (c) => <RoleChip role={c.getValue()} /> }),
+];
+
+const newProject = z.object({
+  name: z.string().trim().min(1, 'Give the project a name.').max(80, 'Keep it to 80 characters.'),
+  description: z.string().trim().max(2000, 'Keep it to 2000 characters.'),
+});
+
+function NewProjectForm({ onDone }: { onDone: () => void }) {
+  const qc = useQueryClient();
+  const { register, handleSubmit, formState, reset } = useForm({ resolver: zodResolver(newProject), defaultValues: { name: '', description: '' } });
+  const create = useMutation({
+    mutationFn: (v: z.infer<typeof newProject>) => api<{ project: { id: string } }>('/api/projects', { method: 'POST', json: v }),
+    onSuccess: async ({ project }) => {
+      await qc.invalidateQueries({ queryKey: ['projects'] });
+      reset();
+      onDone();
+      window.location.assign(`/projects/${project.id}`);
+    },
+  });
+  return (
+    <form onSubmit={handleSubmit((v) => create.mutate(v))} className="grid gap-3 border-b border-line p-3 md:grid-cols-[1fr_2fr_auto]" noValidate>
+      <Field label="Project name" error={formState.errors.name}>
+        <input className="field" {...register('name')} autoFocus />
+      </Field>
+      <Field label="Description (optional)" error={formState.errors.description}>
+        <input className="field" {...register('description')} />
+      </Field>
+      <div className="flex items-end gap-2">
+        <button className="btn btn-primary" disabled={create.isPending}>
+          Create project
+        </button>
+        <button type="button" className="btn" onClick={onDone}>
+          Cancel
+        </button>
+      </div>
+      {create.error && (
+        <div className="md:col-span-3">
+          <Notice tone="bad">{create.error.message}</Notice>
+        </div>
+      )}
+    </form>
+  );
+}
+
+function ProjectList() {
+  const [creating, setCreating] = useState(false);
+  const q = useQuery({ queryKey: ['projects'], queryFn: () => api<{ projects: ProjectRow[] }>('/api/projects') });
+  return (
+    <div className="space-y-4">
+      <div className="flex items-baseline justify-between">
+        <h1 className="text-[18px] font-semibold">Projects</h1>
+      </div>
+      <Panel
+        title="Your projects"
+        actions={
+          !creating && (
+            <button className="btn btn-primary" onClick={() => setCreating(true)}>
+              + New project
+            </button>
+          )
+        }
+      >
+        {creating && <NewProjectForm onDone={() => setCreating(false)} />}
+        {q.isPending ? (
+          <Loading what="projects" />
+        ) : q.error ? (
+          <ErrorText error={q.error} />
+        ) : (
+          <DataTable
+            label="projects"
+            data={q.data.projects}
+            columns={columns}
+            filterPlaceholder="Filter projects…"
+            empty={<>No projects yet. Create one, or ask a project owner to invite you.</>}
+          />
+        )}
+      </Panel>
+    </div>
+  );
+}
+
+export default withQuery(ProjectList);

@@ -1,0 +1,178 @@
+/**
+ * Revisions: the exact text of a netlist at one moment, numbered r1, r2, …
+ * per netlist, hashed with SHA-256 and never changed afterwards. They come
+ * from a JSON body or an uploaded .v / .json file of at most 2 MiB. Whether
+ * the netlist itself is sound is the engine's job; here we check size,
+ * suffix, UTF-8 text and, for .json, that it parses.
+ */
+import crypto from 'node:crypto';
+import { desc, eq } from 'drizzle-orm';
+import { z } from 'zod';
+import { revisions, REVISION_FORMATS, user, type RevisionFormat } from '../db/schema';
+import { recordAudit } from './audit';
+import { fail, idParams, json, methodNotAllowed, parseWith, readBodyLimited, readJson, route } from './http';
+
+export const MAX_REVISION_BYTES = 2 * 1024 * 1024;
+/** Room for multipart boundaries and the other form fields around the file. */
+const MULTIPART_OVERHEAD = 64 * 1024;
+/** JSON escaping (\n, \", \uXXXX) can grow text up to 6×; cap the envelope, then the decoded content exactly. */
+const JSON_ENVELOPE_LIMIT = 6 * MAX_REVISION_BYTES + MULTIPART_OVERHEAD;
+
+const SUFFIX_FORMAT: Record<string, RevisionFormat> = { '.v': 'verilog', '.json': 'json' };
+
+const filename = z
+  .string()
+  .trim()
+  .min(1)
+  .max(200, 'keep the file name to 200 characters or fewer')
+  .refine((n) => !/[\\/\0]/.test(n), 'give a plain file name without folders');
+const message = z.string().trim().max(500, 'keep the message to 500 characters or fewer');
+
+export const createRevisionJsonBody = z
+  .object({
+    content: z.string({ error: 'content must be the netlist text as a string' }),
+    format: z.enum(REVISION_FORMATS, { error: `format must be one of ${REVISION_FORMATS.join(', ')}` }).optional(),
+    filename: filename.optional(),
+    message: message.default(''),
+  })
+  .strict();
+
+function formatFromName(name: string): RevisionFormat {
+  const dot = name.lastIndexOf('.');
+  const suffix = dot < 0 ? '' : name.slice(dot).toLowerCase();
+  const f = SUFFIX_FORMAT[suffix];
+  if (!f) throw fail.invalid(`The file "${name}" has an unsupported suffix; upload a Verilog netlist (.v) or a JSON netlist (.json).`);
+  return f;
+}
+
+/** The checks every revision passes, whichever way it arrived. */
+export function checkRevisionText(bytes: Uint8Array, format: RevisionFormat, label: string): string {
+  if (bytes.byteLength > MAX_REVISION_BYTES) throw fail.tooLarge(MAX_REVISION_BYTES);
+  if (bytes.byteLength === 0) throw fail.invalid(`${label} is empty; upload the netlist text.`);
+  let text: string;
+  try {
+    text = new TextDecoder('utf-8', { fatal: true }).decode(bytes);
+  } catch {
+    throw fail.invalid(`${label} is not UTF-8 text; save it as UTF-8 and upload it again.`);
+  }
+  const nul = text.indexOf('\0');
+  if (nul >= 0) throw fail.invalid(`${label} contains a NUL byte at offset ${nul}; it looks binary, not a text netlist.`);
+  if (format === 'json') {
+    try {
+      JSON.parse(text);
+    } catch (e) {
+      throw fail.invalid(`${label} is not valid JSON (${(e as Error).message}); fix it or upload it as Verilog (.v).`);
+    }
+  }
+  return text;
+}
+
+interface Incoming {
+  content: string;
+  format: RevisionFormat;
+  filename: string | null;
+  message: string;
+}
+
+async function readIncoming(request: Request): Promise<Incoming> {
+  const type = request.headers.get('content-type') ?? '';
+  if (/^multipart\/form-data\b/i.test(type)) {
+    const bytes = await readBodyLimited(request, MAX_REVISION_BYTES + MULTIPART_OVERHEAD);
+    let form: FormData;
+    try {
+      form = await new Request('http://local/', { method: 'POST', headers: { 'content-type': type }, body: bytes }).formData();
+    } catch {
+      throw fail.invalid('The multipart body could not be read; send the netlist as a form field named "file".');
+    }
+    const file = form.get('file');
+    if (!(file instanceof File)) throw fail.invalid('The form has no file: attach the netlist as a field named "file".');
+    const name = parseWith(filename, file.name || '');
+    const format = formatFromName(name);
+    if (file.size > MAX_REVISION_BYTES) throw fail.tooLarge(MAX_REVISION_BYTES);
+    const content = checkRevisionText(new Uint8Array(await file.arrayBuffer()), format, `The file "${name}"`);
+    const msg = parseWith(message, String(form.get('message') ?? ''));
+    return { content, format, filename: name, message: msg };
+  }
+  const body = parseWith(createRevisionJsonBody, await readJson(request, JSON_ENVELOPE_LIMIT));
+  const byName = body.filename ? formatFromName(body.filename) : undefined;
+  if (byName && body.format && byName !== body.format) {
+    throw fail.invalid(`format is "${body.format}" but the file name "${body.filename}" says ${byName}; make them agree.`);
+  }
+  const format = body.format ?? byName;
+  if (!format) throw fail.invalid('Say what the content is: set format to "verilog" or "json", or give a filename ending in .v or .json.');
+  const content = checkRevisionText(new TextEncoder().encode(body.content), format, 'content');
+  return { content, format, filename: body.filename ?? null, message: body.message };
+}
+
+export const sha256 = (text: string) => crypto.createHash('sha256').update(text, 'utf8').digest('hex');
+
+const summary = {
+  id: revisions.id,
+  netlistId: revisions.netlistId,
+  number: revisions.number,
+  format: revisions.format,
+  filename: revisions.filename,
+  message: revisions.message,
+  contentHash: revisions.contentHash,
+  sizeBytes: revisions.sizeBytes,
+  authorId: revisions.authorId,
+  authorName: user.name,
+  createdAt: revisions.createdAt,
+};
+
+export const listRevisions = route({ params: idParams, scope: { type: 'netlist', need: 'read' } }, async ({ db, params }) => ({
+  revisions: await db
+    .select(summary)
+    .from(revisions)
+    .leftJoin(user, eq(user.id, revisions.authorId))
+    .where(eq(revisions.netlistId, params.id))
+    .orderBy(desc(revisions.number)),
+}));
+
+export const createRevision = route({ params: idParams, scope: { type: 'netlist', need: 'edit' } }, async ({ db, params, request, user: me, scope }) => {
+  const inc = await readIncoming(request);
+  const hash = sha256(inc.content);
+  const id = crypto.randomUUID();
+  const number = await db.transaction(async (tx) => {
+    const latest = await tx
+      .select({ number: revisions.number, hash: revisions.contentHash })
+      .from(revisions)
+      .where(eq(revisions.netlistId, params.id))
+      .orderBy(desc(revisions.number))
+      .get();
+    if (latest?.hash === hash) throw fail.conflict(`This content is identical to r${latest.number}; nothing to record.`);
+    const n = (latest?.number ?? 0) + 1;
+    await tx.insert(revisions).values({
+      id,
+      netlistId: params.id,
+      number: n,
+      format: inc.format,
+      filename: inc.filename,
+      message: inc.message,
+      content: inc.content,
+      contentHash: hash,
+      sizeBytes: Buffer.byteLength(inc.content, 'utf8'),
+      authorId: me.id,
+      createdAt: new Date(),
+    });
+    await recordAudit(tx, { projectId: scope.projectId, actorId: me.id, action: 'revision.created', objectType: 'revision', objectId: id, details: { netlistId: params.id, number: n, contentHash: hash, format: inc.format } });
+    return n;
+  });
+  const revision = await db.select(summary).from(revisions).leftJoin(user, eq(user.id, revisions.authorId)).where(eq(revisions.id, id)).get();
+  return json({ revision: { ...revision, number } }, 201);
+});
+
+export const getRevision = route({ params: idParams, scope: { type: 'revision', need: 'read' } }, async ({ db, params, scope }) => {
+  const revision = await db
+    .select({ ...summary, content: revisions.content })
+    .from(revisions)
+    .leftJoin(user, eq(user.id, revisions.authorId))
+    .where(eq(revisions.id, params.id))
+    .get();
+  return { revision: { ...revision, role: scope.role } };
+});
+
+export const revisionIsImmutable = methodNotAllowed(
+  ['GET'],
+  'Revisions are immutable: upload a new revision to the netlist instead of changing or deleting this one.',
+);

@@ -1,0 +1,3 @@
+import { listOutbox } from '../../../lib/api/outbox';
+
+export const GET = listOutbox;

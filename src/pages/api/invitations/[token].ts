@@ -1,0 +1,5 @@
+import { acceptInvitation, getInvitation } from '../../../lib/api/members';
+
+export const GET = getInvitation;
+// Accepting is a POST by the signed-in, invited user.
+export const POST = acceptInvitation;

@@ -1,0 +1,3 @@
+import { listAudit } from '../../../../lib/api/audit';
+
+export const GET = listAudit;

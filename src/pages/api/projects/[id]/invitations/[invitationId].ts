@@ -1,0 +1,3 @@
+import { revokeInvitation } from '../../../../../lib/api/members';
+
+export const DELETE = revokeInvitation;

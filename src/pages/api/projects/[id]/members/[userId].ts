@@ -1,0 +1,4 @@
+import { changeMemberRole, removeMember } from '../../../../../lib/api/members';
+
+export const PATCH = changeMemberRole;
+export const DELETE = removeMember;

@@ -1,0 +1,5 @@
+import { inviteMember, listMembers } from '../../../../../lib/api/members';
+
+export const GET = listMembers;
+// Adding a member means inviting them by e-mail.
+export const POST = inviteMember;

@@ -1,0 +1,3 @@
+import { getRun } from '../../../lib/api/runs';
+
+export const GET = getRun;
