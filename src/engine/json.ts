@@ -121,6 +121,7 @@ function issueMessage(iss: z.core.$ZodIssue): string {
       if (iss.input === undefined) return `${where}: missing; expected ${iss.expected}`;
       return `${where}: expected ${iss.expected}, found ${describeValue(iss.input)}`;
     case 'unrecognized_keys':
+      if (where === 'delayTable') return `${where}: unknown cell kind ${iss.keys.map((k) => `'${k}'`).join(', ')}; expected one of ${BUILTIN_KINDS.join(', ')}`;
       return `${where}: unknown field${iss.keys.length > 1 ? 's' : ''} ${iss.keys.map((k) => `'${k}'`).join(', ')}`;
     default:
       return `${where}: ${iss.message}`;

@@ -248,7 +248,8 @@ export function designArb(options: DesignGenOptions = {}): fc.Arbitrary<Design> 
       const design: Design = { top: 'top', modules };
       if (timescale !== undefined) design.timescale = timescale;
       if (delayTable !== undefined) design.delayTable = delayTable;
-      return design;
+      // Plain objects only: fast-check may build records without a prototype.
+      return JSON.parse(JSON.stringify(design)) as Design;
     });
 }
 
