@@ -80,6 +80,8 @@ function operandText(op: Operand): string {
   }
 }
 
+type NetBit = Extract<Bit, { net: string }>;
+
 const bitLabel = (b: Bit) => ('const' in b ? `1'b${b.const}` : b.index === null ? b.net : `${b.net}[${b.index}]`);
 
 class ModuleElaborator {
@@ -227,7 +229,7 @@ class ModuleElaborator {
     return target.map((bit, k) => {
       const pins: Record<string, Signal> = { y: [bit] };
       const pinOf = new Map<string, string>();
-      const pinFor = (b: Bit & { net: string }): string => {
+      const pinFor = (b: NetBit): string => {
         const key = `${b.net}\u0000${b.index}`;
         let pin = pinOf.get(key);
         if (!pin) {
@@ -271,7 +273,7 @@ class ModuleElaborator {
   }
 
   /** Bit `i` (0 = least significant) of an expression, as an Expr over the cell's pins. */
-  private bitExpr(e: RawExpr, i: number, operandBits: Map<Operand, Signal>, pinFor: (b: Bit & { net: string }) => string): Expr {
+  private bitExpr(e: RawExpr, i: number, operandBits: Map<Operand, Signal>, pinFor: (b: NetBit) => string): Expr {
     const rec = (x: RawExpr, bit: number) => this.bitExpr(x, bit, operandBits, pinFor);
     switch (e.k) {
       case 'not':
