@@ -3,17 +3,20 @@ import type { ReactNode } from 'react';
 import type { FieldError } from 'react-hook-form';
 
 export function Field({ label, error, children, hint }: { label: string; error?: FieldError | { message?: string }; children: ReactNode; hint?: ReactNode }) {
+  // Hint and error sit outside the <label> so the control's accessible name is the label alone.
   return (
-    <label className="block">
-      <span className="label">{label}</span>
-      {children}
+    <div>
+      <label className="block">
+        <span className="label">{label}</span>
+        {children}
+      </label>
       {hint && !error?.message && <span className="mt-1 block text-[12px] text-muted">{hint}</span>}
       {error?.message && (
-        <span className="err" role="alert">
+        <span className="err block" role="alert">
           {error.message}
         </span>
       )}
-    </label>
+    </div>
   );
 }
 

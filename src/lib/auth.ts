@@ -9,6 +9,8 @@ import { getDb, schema, type Db } from './db';
 import { authSecret, publicOrigin, trustedOrigins } from './env';
 import { sendMail } from './mail';
 
+export const CLIENT_IP_HEADER = 'x-skiplane-client-ip';
+
 function build(db: Db) {
   return betterAuth({
     appName: 'Skiplane',
@@ -54,6 +56,8 @@ function build(db: Db) {
     advanced: {
       // Plain http on localhost must still get its cookie.
       useSecureCookies: publicOrigin().startsWith('https:'),
+      // Set by src/pages/api/auth/[...all].ts from the socket address.
+      ipAddress: { ipAddressHeaders: [CLIENT_IP_HEADER] },
     },
   });
 }

@@ -54,6 +54,27 @@ export async function sendMail(mail: Mail): Promise<void> {
   await fs.writeFile(file, raw);
 }
 
+/**
+ * Decodes RFC 2047 encoded words. Adjacent words are joined before decoding
+ * (the blank between them is not text), so a character split across two
+ * base64 words comes out whole.
+ */
+export function decodeHeader(value: string): string {
+  return value.replace(/(?:=\?utf-8\?[BQ]\?[^?]*\?=\s*)+/gi, (run) => {
+    const bytes: Buffer[] = [];
+    for (const m of run.matchAll(/=\?utf-8\?([BQ])\?([^?]*)\?=/gi)) {
+      const [, kind, data] = m;
+      bytes.push(
+        kind.toUpperCase() === 'B'
+          ? Buffer.from(data, 'base64')
+          : Buffer.from(data.replace(/_/g, ' ').replace(/=([0-9A-F]{2})/gi, (_, h: string) => String.fromCharCode(parseInt(h, 16))), 'latin1'),
+      );
+    }
+    // Keep a trailing blank that separated the run from plain text after it.
+    return Buffer.concat(bytes).toString('utf8') + (/\s$/.test(run) ? ' ' : '');
+  });
+}
+
 export interface OutboxMessage {
   id: string;
   to: string;
@@ -83,16 +104,10 @@ export function parseEml(raw: string): Omit<OutboxMessage, 'id'> {
       'latin1',
     ).toString('utf8');
   else text = body;
-  const decodeWord = (v: string) =>
-    v.replace(/=\?utf-8\?([BQ])\?([^?]*)\?=/gi, (_, kind: string, data: string) =>
-      kind.toUpperCase() === 'B'
-        ? Buffer.from(data, 'base64').toString('utf8')
-        : Buffer.from(data.replace(/_/g, ' ').replace(/=([0-9A-F]{2})/gi, (__, h: string) => String.fromCharCode(parseInt(h, 16))), 'latin1').toString('utf8'),
-    );
   return {
-    to: decodeWord(headers.get('to') ?? ''),
-    from: decodeWord(headers.get('from') ?? ''),
-    subject: decodeWord(headers.get('subject') ?? ''),
+    to: decodeHeader(headers.get('to') ?? ''),
+    from: decodeHeader(headers.get('from') ?? ''),
+    subject: decodeHeader(headers.get('subject') ?? ''),
     date: new Date(headers.get('date') ?? 0).toISOString(),
     text: text.replace(/\r\n/g, '\n'),
     links: [...text.matchAll(/https?:\/\/[^\s<>"]+/g)].map((m) => m[0]),
