@@ -31,15 +31,29 @@ export interface FlattenOptions {
   delayTable?: DelayTable;
 }
 
-/** Bit indices of a declaration, least significant (rightmost declared index) first. */
-export function lsbFirstIndices(range: NetDecl['range']): (number | null)[] {
-  if (!range) return [null];
-  const step = range.msb >= range.lsb ? 1 : -1;
+/** Indices from `from` to `to` inclusive, stepping by one in either direction. */
+export function indexRun(from: number, to: number): number[] {
+  const step = from >= to ? -1 : 1;
   const out: number[] = [];
-  for (let i = range.lsb; ; i += step) {
+  for (let i = from; ; i += step) {
     out.push(i);
-    if (i === range.msb) return out;
+    if (i === to) return out;
   }
+}
+
+/** Bit indices of a declaration, most significant (leftmost declared) first; `[null]` for a scalar. */
+export function declIndices(range: NetDecl['range']): (number | null)[] {
+  return range ? indexRun(range.msb, range.lsb) : [null];
+}
+
+/** Bit indices of a declaration, least significant (rightmost declared index) first (SPEC §1). */
+export function lsbFirstIndices(range: NetDecl['range']): (number | null)[] {
+  return declIndices(range).reverse();
+}
+
+/** A bit as written in Verilog and in messages: `a[3]`, `cin`, `1'b0`. */
+export function bitName(b: Bit): string {
+  return 'const' in b ? `1'b${b.const}` : b.index === null ? b.net : `${b.net}[${b.index}]`;
 }
 
 export function declWidth(range: NetDecl['range']): number {
@@ -70,8 +84,6 @@ export function exprPins(expr: Expr): string[] {
   }
   return [...seen];
 }
-
-const bitText = (b: Bit) => ('const' in b ? `1'b${b.const}` : b.index === null ? b.net : `${b.net}[${b.index}]`);
 
 /** Throws for a structural problem lint reports first in normal use. */
 function fail(where: string, message: string): never {
@@ -156,7 +168,7 @@ export function flatten(design: Design, opts: FlattenOptions = {}): FlatNetlist 
       }
       const offset = (b.index - bus.range.lsb) * (bus.range.msb >= bus.range.lsb ? 1 : -1);
       if (offset < 0 || offset >= bus.bits.length) {
-        fail(where(context), `index ${bitText(b)} is outside the declared range [${bus.range.msb}:${bus.range.lsb}]`);
+        fail(where(context), `index ${bitName(b)} is outside the declared range [${bus.range.msb}:${bus.range.lsb}]`);
       }
       return bus.bits[offset];
     };

@@ -7,7 +7,7 @@
  */
 import { EngineError } from './errors';
 import type { FlatNetlist } from './flat';
-import { exprPins, flatten } from './flatten';
+import { bitName, declIndices, declWidth, exprPins, flatten } from './flatten';
 import {
   BUILTIN_KINDS,
   CELL_PINS,
@@ -153,7 +153,6 @@ interface BitUse {
   driverCells: string[];
 }
 
-const bitLabel = (b: Bit) => ('const' in b ? `1'b${b.const}` : b.index === null ? b.net : `${b.net}[${b.index}]`);
 
 class ModuleChecker {
   private readonly nets = new Map<string, NetDecl>();
@@ -185,7 +184,7 @@ class ModuleChecker {
     for (const n of this.m.nets) {
       if (this.nets.has(n.name)) this.out.error('duplicate', this.where(`net ${n.name}`), `net '${n.name}' is declared twice${atLine(n.loc)}; remove one declaration`);
       this.nets.set(n.name, n);
-      for (const b of bitsOfDecl(n)) this.bits.set(bitLabel(b), { net: n.name, label: bitLabel(b), drivers: [], readers: [], driverCells: [] });
+      for (const b of bitsOfDecl(n)) this.bits.set(bitName(b), { net: n.name, label: bitName(b), drivers: [], readers: [], driverCells: [] });
     }
     const seen = new Set<string>();
     for (const p of this.m.ports) {
@@ -197,7 +196,7 @@ class ModuleChecker {
         continue;
       }
       for (const b of bitsOfDecl(decl)) {
-        const use = this.bits.get(bitLabel(b))!;
+        const use = this.bits.get(bitName(b))!;
         if (p.direction === 'input') use.drivers.push(`input port ${p.name}`);
         else use.readers.push(`output port ${p.name}`);
       }
@@ -226,11 +225,11 @@ class ModuleChecker {
       }
       return null;
     }
-    const use = this.bits.get(bitLabel(b));
+    const use = this.bits.get(bitName(b));
     if (use) return use;
     const declared = decl.range ? `${decl.name}[${decl.range.msb}:${decl.range.lsb}]` : `${decl.name} (a scalar)`;
     const fix = decl.range ? (b.index === null ? `name one bit, e.g. ${decl.name}[${decl.range.lsb}]` : 'use an index inside the range') : 'drop the index';
-    this.out.error('index-range', this.where(`net ${bitLabel(b)}`), `${context} uses ${bitLabel(b)}, outside the declaration ${declared}${atLine(loc)}; ${fix}`);
+    this.out.error('index-range', this.where(`net ${bitName(b)}`), `${context} uses ${bitName(b)}, outside the declaration ${declared}${atLine(loc)}; ${fix}`);
     return null;
   }
 
@@ -325,7 +324,7 @@ class ModuleChecker {
         continue;
       }
       if (signal.length === 0) continue;
-      const width = declWidth(child.nets.find((n) => n.name === port));
+      const width = declWidth(child.nets.find((n) => n.name === port)?.range ?? null);
       if (signal.length !== width) {
         this.out.error('width', where, `port '${port}' of '${child.name}' is ${width} bit${width > 1 ? 's' : ''} wide but instance '${inst.name}' connects ${signal.length} (${signalText(signal)})${atLine(inst.loc)}`);
         continue;
@@ -384,21 +383,11 @@ class ModuleChecker {
 }
 
 function bitsOfDecl(n: NetDecl): Bit[] {
-  if (!n.range) return [{ net: n.name, index: null }];
-  const out: Bit[] = [];
-  const step = n.range.msb >= n.range.lsb ? -1 : 1;
-  for (let i = n.range.msb; ; i += step) {
-    out.push({ net: n.name, index: i });
-    if (i === n.range.lsb || out.length > 1 << 20) return out;
-  }
-}
-
-function declWidth(n: NetDecl | undefined): number {
-  return n?.range ? Math.abs(n.range.msb - n.range.lsb) + 1 : 1;
+  return declIndices(n.range).map((index) => ({ net: n.name, index }));
 }
 
 function signalText(s: Signal): string {
-  const text = s.slice(0, 4).map(bitLabel).join(', ');
+  const text = s.slice(0, 4).map(bitName).join(', ');
   return s.length > 4 ? `${text}, …` : text;
 }
 

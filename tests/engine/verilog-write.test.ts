@@ -86,6 +86,12 @@ describe('writeVerilog (SPEC §6)', () => {
     expect(text).toContain("  assign #(1, 4) y[3] = c ? ~(\\wire  & t[1]) : 1'b1;");
   });
 
+  it('parenthesizes a double negation, which Icarus Verilog does not parse as `~~a`', () => {
+    const d = sampleDesign();
+    d.modules[1].cells[5].expr = { op: 'not', a: { op: 'not', a: { op: 'in', pin: 'i0' } } };
+    expect(writeVerilog(d)).toContain('y[3] = ~(~c);');
+  });
+
   it('writes connections compactly: whole nets, part selects, constants, one concatenation', () => {
     expect(text).toContain("  leaf u1 (.x({t, q[1:2], 2'b01}), .z());");
   });

@@ -6,6 +6,7 @@
  * undeclared net, a wrong width on a gate pin) are left to lint.
  */
 import { EngineError } from '../errors';
+import { bitName, indexRun } from '../flatten';
 import type { Bit, Cell, Design, Expr, Instance, Module, NetDecl, Signal, SourceLoc } from '../model';
 import type { Operand, RawAssign, RawDecl, RawExpr, RawGate, RawInstance, RawModule } from './ast';
 
@@ -54,15 +55,6 @@ function chooseTop(raw: RawModule[], ctx: Context, fail: (loc: SourceLoc, m: str
   );
 }
 
-export function rangeIndices(range: { msb: number; lsb: number }): number[] {
-  const step = range.msb >= range.lsb ? -1 : 1;
-  const out: number[] = [];
-  for (let i = range.msb; ; i += step) {
-    out.push(i);
-    if (i === range.lsb) return out;
-  }
-}
-
 function operandText(op: Operand): string {
   switch (op.k) {
     case 'ref':
@@ -81,8 +73,6 @@ function operandText(op: Operand): string {
 }
 
 type NetBit = Extract<Bit, { net: string }>;
-
-const bitLabel = (b: Bit) => ('const' in b ? `1'b${b.const}` : b.index === null ? b.net : `${b.net}[${b.index}]`);
 
 class ModuleElaborator {
   private readonly used = new Set<string>();
@@ -148,7 +138,7 @@ class ModuleElaborator {
       case 'ref': {
         const range = this.decl(op.name)?.range;
         if (!range) push({ net: op.name, index: null });
-        else for (const index of rangeIndices(range)) push({ net: op.name, index });
+        else for (const index of indexRun(range.msb, range.lsb)) push({ net: op.name, index });
         break;
       }
       case 'bit':
@@ -162,7 +152,7 @@ class ModuleElaborator {
             `part select ${op.name}[${op.msb}:${op.lsb}] runs opposite to the declaration [${range.msb}:${range.lsb}]; write ${op.name}[${op.lsb}:${op.msb}]`,
           );
         }
-        for (const index of rangeIndices(op)) push({ net: op.name, index });
+        for (const index of indexRun(op.msb, op.lsb)) push({ net: op.name, index });
         break;
       }
       case 'const': {
@@ -240,7 +230,7 @@ class ModuleElaborator {
         return pin;
       };
       const expr = this.bitExpr(a.rhs, width - 1 - k, operandBits, pinFor);
-      const name = this.freshName(`assign$${bitLabel(bit)}`, false);
+      const name = this.freshName(`assign$${bitName(bit)}`, false);
       return { name, kind: 'expr', pins, delay: { y: a.delay }, expr, loc: a.loc } satisfies Cell;
     });
   }

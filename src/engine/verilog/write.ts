@@ -170,7 +170,8 @@ class ModuleWriter {
       case 'const':
         return `1'b${e.value}`;
       case 'not':
-        return `~${wrap(e.a, precedence(e.a) < 4)}`;
+        // `~~a` does not parse in Icarus Verilog: a double negation gets parentheses.
+        return `~${wrap(e.a, precedence(e.a) < 4 || e.a.op === 'not')}`;
       case 'mux':
         return `${wrap(e.s, e.s.op === 'mux')} ? ${wrap(e.t, e.t.op === 'mux')} : ${this.exprText(e.f, cell)}`;
       default: {
