@@ -293,7 +293,7 @@ describe.skipIf(!hasIverilog)('written Verilog in Icarus Verilog (iverilog -g200
         expect(rows).toHaveLength(2 ** inputBits);
         for (const { inputs, outputs } of rows) expect(ours(design, inputs)).toEqual(outputs);
       }),
-      { numRuns: 12 },
+      { numRuns: 25 },
     );
   });
 });

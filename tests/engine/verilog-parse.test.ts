@@ -257,6 +257,7 @@ describe('parseVerilog: errors name file, line, column, what was found and what 
     ['`define X 1\nmodule m; endmodule', /adder\.v:1:1: compiler directive '`define' is not supported/],
     ['module m (input a, output y);\n  sub u (a, y);\nendmodule', /module 'sub' is not defined in this file; define it, or connect its ports by name/],
     ['module m (input a);\n  and g (a, a, a), g (a, a, a);\nendmodule', /name 'g' is already used/],
+    ['module m (input a);\n  buf b1 (x, y, a);\nendmodule', "adder.v:2:7: a 'buf' with several outputs is not supported; write one 'buf' per output"],
   ])('%j', (src, expected) => {
     const message = parseError(src);
     if (typeof expected === 'string') expect(message).toBe(expected);

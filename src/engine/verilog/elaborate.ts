@@ -172,6 +172,10 @@ class ModuleElaborator {
   }
 
   private gate(g: RawGate): Cell {
+    if ((g.kind === 'buf' || g.kind === 'not') && g.terminals.length > 2) {
+      // IEEE 1364 §7.3 allows several outputs; SPEC §1 cells have one.
+      this.fail(g.loc, `a '${g.kind}' with several outputs is not supported; write one '${g.kind}' per output`);
+    }
     const [output, ...inputs] = g.terminals.map((t) => this.bits(t, 1));
     const pins: Record<string, Signal> = { y: output };
     inputs.forEach((s, i) => (pins[`i${i}`] = s));
