@@ -89,7 +89,9 @@ export function lint(design: Design, opts: LintOptions = {}): LintResult {
   for (const m of modules.values()) checkInstanceInputs(m, modules, usage, out);
   checkRecursion(modules, out);
 
-  if (out.errors.some((f) => STRUCTURAL.has(f.code)) || !modules.has(design.top)) return result(out);
+  const top = modules.get(design.top);
+  if (top && (opts.requireAdderPorts ?? true)) checkAdderPorts(top, opts.map, out);
+  if (!top || out.errors.some((f) => STRUCTURAL.has(f.code))) return result(out);
   let flat: FlatNetlist;
   try {
     flat = flatten(design, { delayTable: opts.delayTable });
@@ -99,15 +101,18 @@ export function lint(design: Design, opts: LintOptions = {}): LintResult {
     return result(out);
   }
   checkLoops(flat, out);
-  if (opts.requireAdderPorts ?? true) {
-    try {
-      resolveAdderPorts(flat, opts.map);
-    } catch (e) {
-      if (!(e instanceof EngineError)) throw e;
-      out.error('missing-port', `module ${design.top}`, e.message);
-    }
-  }
   return result(out);
+}
+
+/** The adder ports need only the top module's ports, so they are checked even when the rest is broken. */
+function checkAdderPorts(top: Module, map: PortMap | undefined, out: Findings): void {
+  try {
+    const portsOnly: Module = { name: top.name, ports: top.ports, nets: top.nets, cells: [], instances: [] };
+    resolveAdderPorts(flatten({ top: top.name, modules: [portsOnly] }), map);
+  } catch (e) {
+    if (!(e instanceof EngineError)) throw e;
+    if (e.code === 'ports') out.error('missing-port', `module ${top.name}`, e.message);
+  }
 }
 
 function result(out: Findings): LintResult {

@@ -102,6 +102,12 @@ describe('lint (SPEC §2): errors name what they concern', () => {
     expect(run(src, { map: { a: 'x' } }).errors).toEqual([]);
   });
 
+  it('missing-port is reported even when other errors stop the flat checks', () => {
+    const r = run(edited('xor x0 (t0, a[0], b[0]);', 'xor x0 (t0, a[0], bb);'), { map: { cout: 'carry' } });
+    expect(codes(r.errors)).toEqual(['undeclared', 'missing-port']);
+    expect(r.errors[1].message).toMatch(/^the carry-out port 'carry' given in the map is not in the design/);
+  });
+
   it('bad-delay: negative or fractional, on a cell or in a delay table', () => {
     expect(run(edited('xor x0 (t0, a[0], b[0]);', 'xor #(1.5, 2) x0 (t0, a[0], b[0]);')).errors).toEqual([
       { code: 'bad-delay', where: 'module add2, cell x0', message: expect.stringMatching(/^delay of cell 'x0' pin y: 1\.5 is not a whole number \(line 3\); delays are whole numbers ≥ 0$/) },
@@ -111,7 +117,9 @@ describe('lint (SPEC §2): errors name what they concern', () => {
   });
 
   it('input-count: a gate with the wrong number of inputs', () => {
-    const r = run(edited('or o1 (cout, g1, p1);', 'not o1 (cout, g1, p1);'));
+    const notGate = parseVerilog(ADDER, 'lint.v');
+    notGate.modules[0].cells.find((c) => c.name === 'o1')!.kind = 'not'; // Verilog would read two outputs here
+    const r = lint(notGate);
     expect(r.errors).toEqual([{ code: 'input-count', where: 'module add2, cell o1', message: expect.stringMatching(/^'not' gate 'o1' has 2 inputs but takes exactly 1 input/) }]);
     const wide: Cell = { name: 'w', kind: 'and', pins: { y: [{ net: 'q', index: null }], ...Object.fromEntries(Array.from({ length: 9 }, (_, i) => [`i${i}`, [{ net: 'a', index: 0 }]])) } };
     const design = parseVerilog(ADDER, 'lint.v');
