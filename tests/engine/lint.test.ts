@@ -1,8 +1,11 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
+import { EngineError } from '../../src/engine/errors';
+import { flatten } from '../../src/engine/flatten';
 import { lint, type Finding, type LintOptions } from '../../src/engine/lint';
 import type { Cell, Design, Module } from '../../src/engine/model';
 import { parseVerilog } from '../../src/engine/verilog/parse';
+import { writeVerilog } from '../../src/engine/verilog/write';
 import { ALL_KINDS, designArb } from './support/design-gen';
 
 /** A clean 2-bit adder (SPEC §1 default port names) to start each case from. */
@@ -187,5 +190,80 @@ describe('lint (SPEC §2): warnings', () => {
   it('unused-input: an input port that drives nothing', () => {
     const r = run(ADDER.replace('input cin,', 'input cin, input spare,'));
     expect(r.warnings).toEqual([{ code: 'unused-input', where: 'module add2, net spare', message: "input port 'spare' of module 'add2' is not read by anything; use it or remove it" }]);
+  });
+});
+
+/** One random corruption of a design: the kinds of mistake lint exists to report. */
+function corrupt(design: Design, kind: number, x: number, y: number): void {
+  const m = design.modules[x % design.modules.length];
+  const cell = m.cells.length > 0 ? m.cells[y % m.cells.length] : undefined;
+  const pin = cell ? Object.keys(cell.pins)[x % Object.keys(cell.pins).length] : undefined;
+  const ghost = (index: number | null) => ({ net: 'ghost', index });
+  switch (kind) {
+    case 0: // undeclared net
+      if (cell && pin) cell.pins[pin] = [ghost(null)];
+      break;
+    case 1: // index out of range, or an index on a scalar
+      if (cell && pin) cell.pins[pin] = [{ net: m.nets[y % m.nets.length].name, index: 99 }];
+      break;
+    case 2: // a declaration removed
+      m.nets.splice(y % m.nets.length, 1);
+      break;
+    case 3:
+      if (cell) (cell as { kind: string }).kind = 'bogus';
+      break;
+    case 4: // wrong width on a pin
+      if (cell && pin) cell.pins[pin] = y % 2 ? [] : [...cell.pins[pin], ...cell.pins[pin]];
+      break;
+    case 5: // unknown module, or recursion through the top
+      m.instances.push({ name: `bad${y}`, module: y % 2 ? 'nomod' : design.top, connections: {} });
+      break;
+    case 6:
+      if (cell) cell.delay = { y: { rise: -1, fall: 0.5 } };
+      break;
+    case 7:
+      if (cell) cell.expr = { op: 'in', pin: 'i9' };
+      break;
+    case 8: // unknown port, or a bus on it
+      if (m.instances.length > 0) m.instances[y % m.instances.length].connections[y % 2 ? 'nope' : 'x0'] = [ghost(1), ghost(2)];
+      break;
+    case 9: // duplicate cell
+      if (cell) m.cells.push({ ...cell });
+      break;
+    case 10: // output on a constant
+      if (cell) cell.pins[Object.keys(cell.pins)[0]] = [{ const: 1 }];
+      break;
+    default: // a loop: feed a cell its own output
+      if (cell && pin) cell.pins.i0 = cell.pins[Object.keys(cell.pins)[0]];
+  }
+}
+
+describe('lint on broken designs (fast-check)', () => {
+  it('reports findings and never throws, whatever is wrong; flatten and the writers throw only EngineError', () => {
+    fc.assert(
+      fc.property(
+        designArb({ kinds: ALL_KINDS, explicitDelays: false }),
+        fc.array(fc.tuple(fc.nat(11), fc.nat(), fc.nat()), { minLength: 1, maxLength: 3 }),
+        (design, mutations) => {
+          for (const [kind, x, y] of mutations) corrupt(design, kind, x, y);
+          const r = lint(design, { requireAdderPorts: false });
+          for (const f of [...r.errors, ...r.warnings]) {
+            expect(f.message).not.toMatch(/\n\s+at /); // no stack trace
+            expect(f.where).not.toBe('');
+          }
+          const onlyEngineErrors = (f: () => unknown) => {
+            try {
+              f();
+            } catch (e) {
+              if (!(e instanceof EngineError)) throw e;
+            }
+          };
+          onlyEngineErrors(() => flatten(design));
+          onlyEngineErrors(() => writeVerilog(design));
+          if (r.errors.length === 0) expect(() => flatten(design)).not.toThrow();
+        },
+      ),
+      { numRuns: 400 },
+    );
   });
 });
