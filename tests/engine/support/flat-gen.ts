@@ -187,7 +187,7 @@ interface RawCell {
   expr?: Expr;
 }
 
-const rawCellArb = (maxDelay: number, equalDelays: boolean): fc.Arbitrary<RawCell> =>
+const rawCellArb = (minDelay: number, maxDelay: number, equalDelays: boolean): fc.Arbitrary<RawCell> =>
   fc.constantFrom(...GATES).chain((kind) => {
     const inCount =
       kind === 'buf' || kind === 'not' ? fc.constant(1)
@@ -197,8 +197,8 @@ const rawCellArb = (maxDelay: number, equalDelays: boolean): fc.Arbitrary<RawCel
       : fc.integer({ min: 2, max: 4 });
     const outCount = kind === 'ha' || kind === 'fa' ? 2 : 1;
     const delay = equalDelays
-      ? fc.integer({ min: 0, max: maxDelay }).map((d): [number, number] => [d, d])
-      : fc.tuple(fc.integer({ min: 0, max: maxDelay }), fc.integer({ min: 0, max: maxDelay }));
+      ? fc.integer({ min: minDelay, max: maxDelay }).map((d): [number, number] => [d, d])
+      : fc.tuple(fc.integer({ min: minDelay, max: maxDelay }), fc.integer({ min: minDelay, max: maxDelay }));
     return inCount.chain((n) =>
       fc.record({
         kind: fc.constant(kind),
@@ -214,12 +214,14 @@ const rawCellArb = (maxDelay: number, equalDelays: boolean): fc.Arbitrary<RawCel
  * pick among the inputs and earlier cell outputs (biased to recent ones, so
  * paths get deep). Outputs: every cell output nothing reads, plus a few more.
  */
-export function randomNetlistArb(opts: { maxCells?: number; maxDelay?: number; equalDelays?: boolean } = {}): fc.Arbitrary<RandomNetlist> {
+export function randomNetlistArb(
+  opts: { maxCells?: number; minDelay?: number; maxDelay?: number; equalDelays?: boolean } = {},
+): fc.Arbitrary<RandomNetlist> {
   const maxCells = opts.maxCells ?? 30;
   return fc
     .record({
       inputs: fc.integer({ min: 1, max: 6 }),
-      cells: fc.array(rawCellArb(opts.maxDelay ?? 6, opts.equalDelays ?? false), { minLength: 1, maxLength: maxCells }),
+      cells: fc.array(rawCellArb(opts.minDelay ?? 0, opts.maxDelay ?? 6, opts.equalDelays ?? false), { minLength: 1, maxLength: maxCells }),
       extraOutputs: fc.array(fc.double({ min: 0, max: 1, maxExcluded: true, noNaN: true }), { maxLength: 3 }),
     })
     .map(({ inputs, cells, extraOutputs }) => buildRandom(inputs, cells, extraOutputs));
@@ -270,35 +272,36 @@ export function zeroDelayEval(flat: FlatNetlist, inputBits: number[]): Uint8Arra
   const get = (n: number): number => {
     if (known[n]) return values[n];
     const d = driver.get(n);
-    let v = 0;
-    if (d) {
-      const inp = (name: string) => get(d.cell.inputs[d.cell.inputPins.indexOf(name)]);
-      const all = d.cell.inputs.map(get);
-      switch (d.cell.kind) {
-        case 'buf': v = all[0]; break;
-        case 'not': v = 1 - all[0]; break;
-        case 'and': v = all.every((x) => x === 1) ? 1 : 0; break;
-        case 'nand': v = all.every((x) => x === 1) ? 0 : 1; break;
-        case 'or': v = all.some((x) => x === 1) ? 1 : 0; break;
-        case 'nor': v = all.some((x) => x === 1) ? 0 : 1; break;
-        case 'xor': v = all.reduce((x, y) => x ^ y, 0); break;
-        case 'xnor': v = 1 - all.reduce((x, y) => x ^ y, 0); break;
-        case 'mux2': v = inp('s') ? inp('d1') : inp('d0'); break;
-        case 'ha': v = d.pin === 's' ? inp('a') ^ inp('b') : inp('a') & inp('b'); break;
-        case 'fa': {
-          const sum = inp('a') + inp('b') + inp('ci');
-          v = d.pin === 's' ? sum & 1 : sum >> 1;
-          break;
-        }
-        case 'expr': v = evalExpr(d.cell.expr!, inp); break;
-      }
-    }
+    const v = d ? cellOutput(d.cell, d.pin, d.cell.inputs.map(get)) : 0;
     values[n] = v;
     known[n] = 1;
     return v;
   };
   for (let n = 0; n < values.length; n++) get(n);
   return values;
+}
+
+/** The value of output pin `pin` of a cell, given its input values in `inputPins` order. */
+export function cellOutput(cell: FlatCell, pin: string, all: number[]): number {
+  const inp = (name: string) => all[cell.inputPins.indexOf(name)];
+  const parity = all.reduce((x, y) => x ^ y, 0);
+  switch (cell.kind) {
+    case 'buf': return all[0];
+    case 'not': return 1 - all[0];
+    case 'and': return all.every((x) => x === 1) ? 1 : 0;
+    case 'nand': return all.every((x) => x === 1) ? 0 : 1;
+    case 'or': return all.some((x) => x === 1) ? 1 : 0;
+    case 'nor': return all.some((x) => x === 1) ? 0 : 1;
+    case 'xor': return parity;
+    case 'xnor': return 1 - parity;
+    case 'mux2': return inp('s') ? inp('d1') : inp('d0');
+    case 'ha': return pin === 's' ? inp('a') ^ inp('b') : inp('a') & inp('b');
+    case 'fa': {
+      const sum = inp('a') + inp('b') + inp('ci');
+      return pin === 's' ? sum & 1 : sum >> 1;
+    }
+    case 'expr': return evalExpr(cell.expr!, inp);
+  }
 }
 
 function evalExpr(e: Expr, inp: (pin: string) => number): number {
