@@ -118,7 +118,7 @@ const runForm = z.object({
 
 function RunForm({ revisionId }: { revisionId: string }) {
   const qc = useQueryClient();
-  const { register, handleSubmit, formState } = useForm({ resolver: zodResolver(runForm), defaultValues: { kind: 'equivalence', place: 'server', seed: '' } });
+  const { register, handleSubmit, formState } = useForm<z.input<typeof runForm>, unknown, z.output<typeof runForm>>({ resolver: zodResolver(runForm), defaultValues: { kind: 'equivalence', place: 'server', seed: '' } });
   const start = useMutation({
     mutationFn: (v: z.infer<typeof runForm>) =>
       api(`/api/revisions/${revisionId}/runs`, { method: 'POST', json: { kind: v.kind, place: v.place, ...(v.seed && { seed: v.seed }) } }),

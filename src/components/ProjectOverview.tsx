@@ -149,7 +149,7 @@ const netlistForm = z.object({
 
 function NewNetlistForm({ projectId, onDone }: { projectId: string; onDone: () => void }) {
   const qc = useQueryClient();
-  const { register, handleSubmit, formState } = useForm({
+  const { register, handleSubmit, formState } = useForm<z.input<typeof netlistForm>, unknown, z.output<typeof netlistForm>>({
     resolver: zodResolver(netlistForm),
     defaultValues: { name: '', width: '16', kind: 'ripple-carry', description: '' },
   });
@@ -203,7 +203,7 @@ const inviteForm = z.object({
 function InviteForm({ projectId }: { projectId: string }) {
   const qc = useQueryClient();
   const [sentTo, setSentTo] = useState<string | null>(null);
-  const { register, handleSubmit, formState, reset } = useForm({ resolver: zodResolver(inviteForm), defaultValues: { email: '', role: 'designer' } });
+  const { register, handleSubmit, formState, reset } = useForm<z.input<typeof inviteForm>, unknown, z.output<typeof inviteForm>>({ resolver: zodResolver(inviteForm), defaultValues: { email: '', role: 'designer' } });
   const invite = useMutation({
     mutationFn: (v: z.infer<typeof inviteForm>) => api(`/api/projects/${projectId}/members`, { method: 'POST', json: v }),
     onSuccess: async (_d, v) => {

@@ -9,7 +9,7 @@ let netlistId: string;
 
 const verilog = (tag: string) => `module add1(input a, input b, output s, output cout);\n  assign s = a ^ b;\n  assign cout = a & b; // ${tag}\nendmodule\n`;
 
-function upload(name: string, data: Uint8Array | string, extra: Record<string, string> = {}) {
+function upload(name: string, data: Uint8Array<ArrayBuffer> | string, extra: Record<string, string> = {}) {
   const form = new FormData();
   form.set('file', new File([data], name));
   for (const [k, v] of Object.entries(extra)) form.set(k, v);

@@ -71,7 +71,7 @@ const CASES: Case[] = [
 ];
 
 beforeAll(async () => {
-  for (const a of [...SIGNED_IN, 'target'] as const) users[a] = await signUp(`${a} user`, `${a}@example.test`);
+  for (const a of [...SIGNED_IN, 'target'] as (keyof typeof users)[]) users[a] = await signUp(`${a} user`, `${a}@example.test`);
 });
 
 async function fixture() {

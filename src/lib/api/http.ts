@@ -43,7 +43,7 @@ export function parseWith<T extends z.ZodType>(schema: T, value: unknown): z.inf
 }
 
 /** Reads the body, refusing early on Content-Length and again on the bytes actually read. */
-export async function readBodyLimited(request: Request, limit: number): Promise<Uint8Array> {
+export async function readBodyLimited(request: Request, limit: number): Promise<Uint8Array<ArrayBuffer>> {
   const declared = request.headers.get('content-length');
   if (declared !== null && Number(declared) > limit) throw fail.tooLarge(limit);
   if (!request.body) return new Uint8Array();
