@@ -23,7 +23,6 @@ import {
   type GateKind,
   type Module,
   type NetDecl,
-  type Signal,
 } from './model';
 
 export interface FlattenOptions {
@@ -128,140 +127,157 @@ interface Frame {
   /** Parent net of each port bit (least significant first); absent or empty means unconnected. */
   bindings: Map<string, number[]>;
   scope: FlatScope;
+  /** This scope's declared nets by name (filled when the frame is expanded). */
+  buses: Map<string, FlatBus>;
 }
 
 export function flatten(design: Design, opts: FlattenOptions = {}): FlatNetlist {
-  const top = findModule(design, design.top);
-  if (!top) fail(`design`, `top module '${design.top}' is not defined`);
-  const modules = checkHierarchy(design, top!);
-
-  const netNames: string[] = [];
-  const newNet = (name: string) => netNames.push(name) - 1;
-  const consts = [-1, -1];
-  const constNet = (v: 0 | 1) => (consts[v] >= 0 ? consts[v] : (consts[v] = newNet(`1'b${v}`)));
-
-  const cells: FlatCell[] = [];
-  const rootScope: FlatScope = { name: '', module: top!.name, buses: [], children: [] };
-  const stack: Frame[] = [{ module: top!, prefix: '', bindings: new Map(), scope: rootScope }];
-
-  while (stack.length > 0) {
-    const { module, prefix, bindings, scope } = stack.pop()!;
-    const where = (what: string) => (prefix ? `${prefix}${what}` : `module ${module.name}, ${what}`);
-
-    // Declared nets: ports take their parent's nets, the rest are new.
-    const buses = new Map<string, FlatBus>();
-    for (const decl of module.nets) {
-      if (buses.has(decl.name)) fail(where(`net ${decl.name}`), 'declared twice');
-      const bound = bindings.get(decl.name);
-      const bits = bound && bound.length > 0 ? bound : lsbFirstIndices(decl.range).map((i) => newNet(`${prefix}${decl.name}${i === null ? '' : `[${i}]`}`));
-      const bus: FlatBus = { name: decl.name, range: decl.range, bits };
-      buses.set(decl.name, bus);
-      scope.buses.push(bus);
-    }
-    const netOf = (b: Bit, context: string): number => {
-      if ('const' in b) return constNet(b.const);
-      const bus = buses.get(b.net);
-      if (!bus) return fail(where(context), `net '${b.net}' is not declared`);
-      if (b.index === null || bus.range === null) {
-        if (b.index === null && bus.range === null) return bus.bits[0];
-        return fail(where(context), bus.range ? `'${b.net}' is a bus; name one bit, e.g. ${b.net}[${bus.range.lsb}]` : `'${b.net}' is a scalar; drop the index [${b.index}]`);
-      }
-      const offset = (b.index - bus.range.lsb) * (bus.range.msb >= bus.range.lsb ? 1 : -1);
-      if (offset < 0 || offset >= bus.bits.length) {
-        fail(where(context), `index ${bitName(b)} is outside the declared range [${bus.range.msb}:${bus.range.lsb}]`);
-      }
-      return bus.bits[offset];
-    };
-
-    for (const cell of module.cells) cells.push(flatCell(cell, module, prefix, where, netOf, newNet, opts, design));
-
-    // Children, pushed in reverse so they come off the stack in declaration order (cells pre-order).
-    const frames: Frame[] = module.instances.map((inst) => {
-      const child = modules.get(inst.module)!;
-      const childBindings = new Map<string, number[]>();
-      for (const [port, signal] of Object.entries(inst.connections)) {
-        const decl = child.ports.find((p) => p.name === port);
-        if (!decl) fail(where(`instance ${inst.name}`), `module '${child.name}' has no port '${port}'`);
-        if (signal.length === 0) continue;
-        const width = declWidth(child.nets.find((n) => n.name === port)?.range ?? null);
-        if (signal.length !== width) {
-          fail(where(`instance ${inst.name}`), `port '${port}' is ${width} bits wide but is connected to ${signal.length} bits`);
-        }
-        if (decl!.direction === 'output' && signal.some((b) => 'const' in b)) {
-          fail(where(`instance ${inst.name}`), `output port '${port}' is connected to a constant`);
-        }
-        childBindings.set(port, signal.map((b) => netOf(b, `instance ${inst.name}, port ${port}`)).reverse());
-      }
-      const childScope: FlatScope = { name: inst.name, module: child.name, buses: [], children: [] };
-      scope.children.push(childScope);
-      return { module: child, prefix: `${prefix}${inst.name}.`, bindings: childBindings, scope: childScope };
-    });
-    for (let i = frames.length - 1; i >= 0; i--) stack.push(frames[i]);
-  }
-
-  const topBus = (dir: 'input' | 'output') =>
-    top!.ports.filter((p) => p.direction === dir).map((p) => rootScope.buses.find((b) => b.name === p.name) ?? fail(`module ${top!.name}`, `port '${p.name}' has no net declaration`));
-  return {
-    netNames,
-    cells,
-    inputs: topBus('input'),
-    outputs: topBus('output'),
-    const0: consts[0],
-    const1: consts[1],
-    scope: rootScope,
-    timescale: design.timescale ?? '1ps/1ps',
-  };
+  return new Flattener(design, opts).run();
 }
 
-function flatCell(
-  cell: Cell,
-  module: Module,
-  prefix: string,
-  where: (what: string) => string,
-  netOf: (b: Bit, context: string) => number,
-  newNet: (name: string) => number,
-  opts: FlattenOptions,
-  design: Design,
-): FlatCell {
-  const here = where(`cell ${cell.name}`);
-  if (cell.kind !== 'expr' && !BUILTIN_KINDS.includes(cell.kind)) fail(here, `unknown cell kind '${cell.kind}'`);
-  const inputPins = inputPinsOf(cell);
-  if (cell.kind === 'expr') {
-    if (!cell.expr) fail(here, 'expression cell has no expression');
-    const unknown = exprPins(cell.expr!).find((p) => !inputPins.includes(p));
-    if (unknown !== undefined) fail(here, `expression reads pin ${unknown}, which the cell does not have`);
-  } else if (cell.kind !== 'mux2' && cell.kind !== 'ha' && cell.kind !== 'fa') {
-    const [min, max] = gateInputRange(cell.kind as GateKind);
-    if (inputPins.length < min || inputPins.length > max) fail(here, `'${cell.kind}' takes ${min === max ? min : `${min} to ${max}`} inputs, not ${inputPins.length}`);
+/** One walk of the instance tree. Messages are built only on failure: this runs per cell of 10^5. */
+class Flattener {
+  private readonly netNames: string[] = [];
+  private readonly cells: FlatCell[] = [];
+  private readonly consts = [-1, -1];
+
+  constructor(
+    private readonly design: Design,
+    private readonly opts: FlattenOptions,
+  ) {}
+
+  run(): FlatNetlist {
+    const { design } = this;
+    const top = findModule(design, design.top);
+    if (!top) fail(`design`, `top module '${design.top}' is not defined`);
+    const modules = checkHierarchy(design, top!);
+    const rootScope: FlatScope = { name: '', module: top!.name, buses: [], children: [] };
+    const stack: Frame[] = [{ module: top!, prefix: '', bindings: new Map(), scope: rootScope, buses: new Map() }];
+    while (stack.length > 0) {
+      const frame = stack.pop()!;
+      this.declareNets(frame);
+      for (const cell of frame.module.cells) this.cells.push(this.flatCell(cell, frame));
+      // Children, pushed in reverse so they come off the stack in declaration order (cells pre-order).
+      const children = frame.module.instances.map((inst) => this.childFrame(inst, modules.get(inst.module)!, frame));
+      for (let i = children.length - 1; i >= 0; i--) stack.push(children[i]);
+    }
+    const topBus = (dir: 'input' | 'output') =>
+      top!.ports.filter((p) => p.direction === dir).map((p) => rootScope.buses.find((b) => b.name === p.name) ?? fail(`module ${top!.name}`, `port '${p.name}' has no net declaration`));
+    return {
+      netNames: this.netNames,
+      cells: this.cells,
+      inputs: topBus('input'),
+      outputs: topBus('output'),
+      const0: this.consts[0],
+      const1: this.consts[1],
+      scope: rootScope,
+      timescale: design.timescale ?? '1ps/1ps',
+    };
   }
-  const oneBit = (pin: string, signal: Signal | undefined): Bit | null => {
+
+  private newNet(name: string): number {
+    return this.netNames.push(name) - 1;
+  }
+
+  private constNet(v: 0 | 1): number {
+    if (this.consts[v] < 0) this.consts[v] = this.newNet(`1'b${v}`);
+    return this.consts[v];
+  }
+
+  private where(frame: Frame, what: string): string {
+    return frame.prefix ? `${frame.prefix}${what}` : `module ${frame.module.name}, ${what}`;
+  }
+
+  /** Declared nets: ports take their parent's nets, the rest are new. */
+  private declareNets(frame: Frame): void {
+    for (const decl of frame.module.nets) {
+      if (frame.buses.has(decl.name)) fail(this.where(frame, `net ${decl.name}`), 'declared twice');
+      const bound = frame.bindings.get(decl.name);
+      const bits = bound && bound.length > 0 ? bound : lsbFirstIndices(decl.range).map((i) => this.newNet(`${frame.prefix}${decl.name}${i === null ? '' : `[${i}]`}`));
+      const bus: FlatBus = { name: decl.name, range: decl.range, bits };
+      frame.buses.set(decl.name, bus);
+      frame.scope.buses.push(bus);
+    }
+  }
+
+  /** The net of one bit in a scope; `context` names the user (cell pin or instance port) for messages. */
+  private netOf(b: Bit, frame: Frame, context: () => string): number {
+    if ('const' in b) return this.constNet(b.const);
+    const bus = frame.buses.get(b.net);
+    if (!bus) return fail(this.where(frame, context()), `net '${b.net}' is not declared`);
+    if (b.index === null || bus.range === null) {
+      if (b.index === null && bus.range === null) return bus.bits[0];
+      return fail(this.where(frame, context()), bus.range ? `'${b.net}' is a bus; name one bit, e.g. ${b.net}[${bus.range.lsb}]` : `'${b.net}' is a scalar; drop the index [${b.index}]`);
+    }
+    const offset = (b.index - bus.range.lsb) * (bus.range.msb >= bus.range.lsb ? 1 : -1);
+    if (offset < 0 || offset >= bus.bits.length) {
+      fail(this.where(frame, context()), `index ${bitName(b)} is outside the declared range [${bus.range.msb}:${bus.range.lsb}]`);
+    }
+    return bus.bits[offset];
+  }
+
+  private childFrame(inst: Module['instances'][number], child: Module, frame: Frame): Frame {
+    const here = () => this.where(frame, `instance ${inst.name}`);
+    const bindings = new Map<string, number[]>();
+    for (const [port, signal] of Object.entries(inst.connections)) {
+      const decl = child.ports.find((p) => p.name === port);
+      if (!decl) fail(here(), `module '${child.name}' has no port '${port}'`);
+      if (signal.length === 0) continue;
+      const width = declWidth(child.nets.find((n) => n.name === port)?.range ?? null);
+      if (signal.length !== width) fail(here(), `port '${port}' is ${width} bits wide but is connected to ${signal.length} bits`);
+      if (decl!.direction === 'output' && signal.some((b) => 'const' in b)) fail(here(), `output port '${port}' is connected to a constant`);
+      bindings.set(port, signal.map((b) => this.netOf(b, frame, () => `instance ${inst.name}, port ${port}`)).reverse());
+    }
+    const scope: FlatScope = { name: inst.name, module: child.name, buses: [], children: [] };
+    frame.scope.children.push(scope);
+    return { module: child, prefix: `${frame.prefix}${inst.name}.`, bindings, scope, buses: new Map() };
+  }
+
+  /** The one bit on a pin, or null when the pin is open. */
+  private pinBit(cell: Cell, pin: string, frame: Frame): Bit | null {
+    const signal = cell.pins[pin];
     if (!signal || signal.length === 0) return null;
-    if (signal.length !== 1) fail(here, `pin ${pin} takes 1 bit but is connected to ${signal.length}`);
+    if (signal.length !== 1) fail(this.where(frame, `cell ${cell.name}`), `pin ${pin} takes 1 bit but is connected to ${signal.length}`);
     return signal[0];
-  };
-  const inputs = inputPins.map((pin) => {
-    const b = oneBit(pin, cell.pins[pin]);
-    if (!b) return fail(here, `input pin ${pin} is not connected`);
-    return netOf(b, `cell ${cell.name}, pin ${pin}`);
-  });
-  const outputPins = outputPinsOf(cell);
-  const outputs = outputPins.map((pin) => {
-    const b = oneBit(pin, cell.pins[pin]);
-    if (!b) return newNet(`${prefix}${cell.name}.${pin}`); // an open output drives a net of its own
-    if ('const' in b) return fail(here, `output pin ${pin} drives a constant`);
-    return netOf(b, `cell ${cell.name}, pin ${pin}`);
-  });
-  const flat: FlatCell = {
-    name: prefix + cell.name,
-    kind: cell.kind,
-    module: module.name,
-    inputPins,
-    inputs,
-    outputPins,
-    outputs,
-    delays: outputPins.map((pin) => resolveDelay(cell, pin, opts.delayTable, design.delayTable)),
-  };
-  if (cell.expr) flat.expr = cell.expr;
-  if (cell.loc) flat.loc = cell.loc;
-  return flat;
+  }
+
+  private flatCell(cell: Cell, frame: Frame): FlatCell {
+    const here = () => this.where(frame, `cell ${cell.name}`);
+    if (cell.kind !== 'expr' && !BUILTIN_KINDS.includes(cell.kind)) fail(here(), `unknown cell kind '${cell.kind}'`);
+    const inputPins = inputPinsOf(cell);
+    if (cell.kind === 'expr') {
+      if (!cell.expr) fail(here(), 'expression cell has no expression');
+      const unknown = exprPins(cell.expr!).find((p) => !inputPins.includes(p));
+      if (unknown !== undefined) fail(here(), `expression reads pin ${unknown}, which the cell does not have`);
+    } else if (cell.kind !== 'mux2' && cell.kind !== 'ha' && cell.kind !== 'fa') {
+      const [min, max] = gateInputRange(cell.kind as GateKind);
+      if (inputPins.length < min || inputPins.length > max) fail(here(), `'${cell.kind}' takes ${min === max ? min : `${min} to ${max}`} inputs, not ${inputPins.length}`);
+    }
+    const pinContext = (pin: string) => () => `cell ${cell.name}, pin ${pin}`;
+    const inputs = inputPins.map((pin) => {
+      const b = this.pinBit(cell, pin, frame);
+      if (!b) return fail(here(), `input pin ${pin} is not connected`);
+      return this.netOf(b, frame, pinContext(pin));
+    });
+    const outputPins = outputPinsOf(cell);
+    const outputs = outputPins.map((pin) => {
+      const b = this.pinBit(cell, pin, frame);
+      if (!b) return this.newNet(`${frame.prefix}${cell.name}.${pin}`); // an open output drives a net of its own
+      if ('const' in b) return fail(here(), `output pin ${pin} drives a constant`);
+      return this.netOf(b, frame, pinContext(pin));
+    });
+    const flat: FlatCell = {
+      name: frame.prefix + cell.name,
+      kind: cell.kind,
+      module: frame.module.name,
+      inputPins,
+      inputs,
+      outputPins,
+      outputs,
+      delays: outputPins.map((pin) => resolveDelay(cell, pin, this.opts.delayTable, this.design.delayTable)),
+    };
+    if (cell.expr) flat.expr = cell.expr;
+    if (cell.loc) flat.loc = cell.loc;
+    return flat;
+  }
 }

@@ -13,7 +13,7 @@ import { join } from 'node:path';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { flatten } from '../../src/engine/flatten';
-import type { Cell, Design, Expr, Module, Signal } from '../../src/engine/model';
+import type { Cell, Design, Module, Signal } from '../../src/engine/model';
 import { parseVerilog } from '../../src/engine/verilog/parse';
 import { writeVerilog } from '../../src/engine/verilog/write';
 import { ALL_KINDS, busValue, designArb, evaluateFlat, setBus } from './support/design-gen';

@@ -102,11 +102,6 @@ class Parser {
     return this.next();
   }
 
-  private expectKeyword(text: string, context = ''): Token {
-    if (!this.isKeyword(text)) this.expected(`'${text}'`, context);
-    return this.next();
-  }
-
   /** A name: an identifier that is not a reserved word (escaped identifiers always are names). */
   private expectName(what: string, context = ''): Token {
     const t = this.peek();
