@@ -72,6 +72,13 @@ export class AdderHarness {
     return this.sim.apply(this.inputs);
   }
 
+  /** Apply a vector and report it as a `sim` step (SPEC §7), with the simulator's full result. */
+  applyStep(v: Vector): { step: AdderStep; result: StepResult } {
+    const result = this.apply(v);
+    const step = { a: v.a, b: v.b, cin: v.cin, sum: this.readSum(), settle: result.settle, lastEvent: result.lastEvent, outputChanges: result.outputChanges };
+    return { step, result };
+  }
+
   /** The present sum, carry-out as bit n. */
   readSum(): bigint {
     return readBits(this.outputNets, this.sim.values);
@@ -89,10 +96,7 @@ export class AdderHarness {
  */
 export function runVectors(compiled: CompiledNetlist, ports: AdderPorts, vectors: readonly Vector[], options: AdderSimOptions = {}): AdderStep[] {
   const harness = new AdderHarness(compiled, ports, options);
-  return vectors.map((v) => {
-    const r = harness.apply(v);
-    return { a: v.a, b: v.b, cin: v.cin, sum: harness.readSum(), settle: r.settle, lastEvent: r.lastEvent, outputChanges: r.outputChanges };
-  });
+  return vectors.map((v) => harness.applyStep(v).step);
 }
 
 /** Write the low `positions.length` bits of `value` to `out[positions[i]]`, 32 bits at a time. */
