@@ -197,9 +197,10 @@ describe('parseVerilog: assign (SPEC §1 expression cells)', () => {
   });
 
   it('reads `wire x = expr;` as a declaration and an assign', () => {
-    const m = mod(parseVerilog('module m (input a, b, output y); wire t = a & b; buf (y, t); endmodule', 'm.v'), 'm');
+    const m = mod(parseVerilog('module m (input a, b, output y); wire #(1, 2) t = a & b; buf (y, t); endmodule', 'm.v'), 'm');
     expect(m.nets.map((n) => n.name)).toEqual(['a', 'b', 'y', 't']);
     expect(m.cells[0].name).toBe('assign$t');
+    expect(m.cells[0].delay).toEqual({ y: { rise: 1, fall: 2 } });
   });
 
   it('refuses operands of another width with a clear message', () => {
@@ -257,6 +258,7 @@ describe('parseVerilog: errors name file, line, column, what was found and what 
     ['`define X 1\nmodule m; endmodule', /adder\.v:1:1: compiler directive '`define' is not supported/],
     ['module m (input a, output y);\n  sub u (a, y);\nendmodule', /module 'sub' is not defined in this file; define it, or connect its ports by name/],
     ['module m (input a);\n  and g (a, a, a), g (a, a, a);\nendmodule', /name 'g' is already used/],
+    ['module m;\n  wire #3 w;\nendmodule', "adder.v:2:8: a delay on a wire declaration is not supported; put it on the gate or assign that drives 'w'"],
     ['module m (input a);\n  buf b1 (x, y, a);\nendmodule', "adder.v:2:7: a 'buf' with several outputs is not supported; write one 'buf' per output"],
   ])('%j', (src, expected) => {
     const message = parseError(src);

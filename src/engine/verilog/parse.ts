@@ -289,12 +289,16 @@ class Parser {
   private wireDeclaration(mod: RawModule): void {
     this.next();
     const range = this.optionalRange();
+    const delayLoc = this.isPunct('#') ? this.peek().loc : null;
     const delay = this.optionalDelay();
     do {
       const t = this.expectName('a net name', "after 'wire'");
       this.declare(mod, { name: t.text, range, loc: t.loc });
       if (this.acceptPunct('=')) {
         mod.items.push({ k: 'assign', delay, lhs: { k: 'ref', name: t.text, loc: t.loc }, rhs: this.expression(), loc: t.loc });
+      } else if (delayLoc) {
+        // A net delay would silently change timing if ignored; SPEC §1 puts delays on cells.
+        this.fail(delayLoc, `a delay on a wire declaration is not supported; put it on the gate or assign that drives '${t.text}'`);
       }
     } while (this.acceptPunct(','));
     this.expectPunct(';', 'after the wire declaration');
