@@ -108,7 +108,9 @@ export function ForgotPasswordForm() {
   );
 }
 
-const resetSchema = z.object({ password, confirm: z.string() }).refine((v) => v.password === v.confirm, { message: 'The two passwords differ.', path: ['confirm'] });
+const resetSchema = z
+  .object({ password, confirm: z.string() })
+  .refine((v) => v.password === v.confirm, { message: 'The two passwords differ.', path: ['confirm'] });
 
 export function ResetPasswordForm({ token, linkError }: { token?: string; linkError?: string }) {
   const [done, setDone] = useState(false);

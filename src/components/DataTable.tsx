@@ -2,15 +2,7 @@
  * The one table every screen uses: TanStack Table with click-to-sort
  * headers and a text filter over all columns. It renders what it is given.
  */
-import {
-  flexRender,
-  getCoreRowModel,
-  getFilteredRowModel,
-  getSortedRowModel,
-  useReactTable,
-  type ColumnDef,
-  type SortingState,
-} from '@tanstack/react-table';
+import { flexRender, getCoreRowModel, getFilteredRowModel, getSortedRowModel, useReactTable, type ColumnDef, type SortingState } from '@tanstack/react-table';
 import { useState, type ReactNode } from 'react';
 
 interface Props<T> {

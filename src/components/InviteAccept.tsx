@@ -37,7 +37,8 @@ function InviteAccept({ token, me }: { token: string; me: { email: string; name:
             <Notice tone="bad">This invitation is {inv.status}. Ask the project owner for a new one.</Notice>
           ) : mismatch ? (
             <Notice tone="bad">
-              You are signed in as <span className="mono">{me.email}</span>. Sign out, then sign in or create an account with <span className="mono">{inv.email}</span> to accept.
+              You are signed in as <span className="mono">{me.email}</span>. Sign out, then sign in or create an account with{' '}
+              <span className="mono">{inv.email}</span> to accept.
             </Notice>
           ) : (
             <>

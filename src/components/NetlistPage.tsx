@@ -10,6 +10,7 @@ import { DataTable } from './DataTable';
 import { bits, bytes, delay, hash, rev, utc } from './format';
 import type { NetlistRow } from './ProjectOverview';
 import { withQuery } from './query';
+import { SignOff } from './SignOff';
 import { ErrorText, Field, Loading, Notice, Panel, ReviewState, RoleChip, RunStatus } from './ui';
 
 const MAX_BYTES = 2 * 1024 * 1024;
@@ -80,8 +81,8 @@ function UploadForm({ netlistId, onUploaded }: { netlistId: string; onUploaded: 
   const pick = (f: File | null) => {
     setProblem(null);
     upload.reset();
-    if (f && !/\.(v|json)$/i.test(f.name)) return setProblem(`"${f.name}" is not a .v or .json file.`), setFile(null);
-    if (f && f.size > MAX_BYTES) return setProblem(`"${f.name}" is ${bytes(f.size)}; the limit is 2 MiB.`), setFile(null);
+    if (f && !/\.(v|json)$/i.test(f.name)) return (setProblem(`"${f.name}" is not a .v or .json file.`), setFile(null));
+    if (f && f.size > MAX_BYTES) return (setProblem(`"${f.name}" is ${bytes(f.size)}; the limit is 2 MiB.`), setFile(null));
     setFile(f);
   };
   return (
@@ -113,19 +114,30 @@ function UploadForm({ netlistId, onUploaded }: { netlistId: string; onUploaded: 
 const runForm = z.object({
   kind: z.enum(['equivalence', 'proof', 'slowest-vector', 'sweep']),
   place: z.enum(['server', 'browser']),
-  seed: z.string().trim().regex(/^\d{0,20}$/, 'A whole number of up to 20 digits, or empty.'),
+  seed: z
+    .string()
+    .trim()
+    .regex(/^\d{0,20}$/, 'A whole number of up to 20 digits, or empty.'),
 });
 
 function RunForm({ revisionId }: { revisionId: string }) {
   const qc = useQueryClient();
-  const { register, handleSubmit, formState } = useForm<z.input<typeof runForm>, unknown, z.output<typeof runForm>>({ resolver: zodResolver(runForm), defaultValues: { kind: 'equivalence', place: 'server', seed: '' } });
+  const { register, handleSubmit, formState } = useForm<z.input<typeof runForm>, unknown, z.output<typeof runForm>>({
+    resolver: zodResolver(runForm),
+    defaultValues: { kind: 'equivalence', place: 'server', seed: '' },
+  });
   const start = useMutation({
     mutationFn: (v: z.infer<typeof runForm>) =>
       api(`/api/revisions/${revisionId}/runs`, { method: 'POST', json: { kind: v.kind, place: v.place, ...(v.seed && { seed: v.seed }) } }),
     onSuccess: () => qc.invalidateQueries({ queryKey: ['runs', revisionId] }),
   });
   return (
-    <form onSubmit={handleSubmit((v) => start.mutate(v))} className="grid items-end gap-2 border-b border-line p-3 md:grid-cols-[1fr_1fr_1fr_auto]" noValidate aria-label="Start a run">
+    <form
+      onSubmit={handleSubmit((v) => start.mutate(v))}
+      className="grid items-end gap-2 border-b border-line p-3 md:grid-cols-[1fr_1fr_1fr_auto]"
+      noValidate
+      aria-label="Start a run"
+    >
       <Field label="Check">
         <select className="field" {...register('kind')}>
           <option value="equivalence">equivalence</option>
@@ -155,7 +167,8 @@ function RunForm({ revisionId }: { revisionId: string }) {
   );
 }
 
-function RevisionDetail({ revisionId, editable }: { revisionId: string; editable: boolean }) {
+function RevisionDetail({ revisionId, netlistId, role, meId }: { revisionId: string; netlistId: string; role: string; meId: string }) {
+  const editable = role === 'owner' || role === 'designer';
   const r = useQuery({ queryKey: ['revision', revisionId], queryFn: () => api<{ revision: Revision }>(`/api/revisions/${revisionId}`) });
   const runs = useQuery({ queryKey: ['runs', revisionId], queryFn: () => api<{ runs: Run[] }>(`/api/revisions/${revisionId}/runs`) });
   if (r.isPending) return <Loading what="the revision" />;
@@ -163,16 +176,25 @@ function RevisionDetail({ revisionId, editable }: { revisionId: string; editable
   const v = r.data.revision;
   return (
     <div className="space-y-4">
-      <Panel title={<>Runs of {rev(v.number)}</>} id="runs-title">
-        {editable && <RunForm revisionId={revisionId} />}
-        {runs.isPending ? (
-          <Loading what="runs" />
-        ) : runs.error ? (
-          <ErrorText error={runs.error} />
-        ) : (
-          <DataTable label="runs" data={runs.data.runs} columns={runColumns} empty="No runs of this revision yet." initialSort={[{ id: 'createdAt', desc: true }]} />
-        )}
-      </Panel>
+      <div className="grid gap-4 xl:grid-cols-[minmax(0,1fr)_420px]">
+        <Panel title={<>Runs of {rev(v.number)}</>} id="runs-title">
+          {editable && <RunForm revisionId={revisionId} />}
+          {runs.isPending ? (
+            <Loading what="runs" />
+          ) : runs.error ? (
+            <ErrorText error={runs.error} />
+          ) : (
+            <DataTable
+              label="runs"
+              data={runs.data.runs}
+              columns={runColumns}
+              empty="No runs of this revision yet."
+              initialSort={[{ id: 'createdAt', desc: true }]}
+            />
+          )}
+        </Panel>
+        <SignOff revisionId={revisionId} number={v.number} contentHash={v.contentHash} role={role} meId={meId} netlistId={netlistId} />
+      </div>
       <Panel
         title={
           <>
@@ -193,7 +215,12 @@ function RevisionDetail({ revisionId, editable }: { revisionId: string; editable
 }
 
 const editForm = z.object({
-  name: z.string().trim().min(1, 'Give it a name.').max(64).regex(/^[A-Za-z0-9][A-Za-z0-9_.-]*$/, 'Letters, digits, "_", "-" and "." only.'),
+  name: z
+    .string()
+    .trim()
+    .min(1, 'Give it a name.')
+    .max(64)
+    .regex(/^[A-Za-z0-9][A-Za-z0-9_.-]*$/, 'Letters, digits, "_", "-" and "." only.'),
   description: z.string().trim().max(2000),
 });
 
@@ -208,7 +235,10 @@ function NetlistHeader({ n }: { n: Netlist }) {
       await qc.invalidateQueries({ queryKey: ['netlist', n.id] });
     },
   });
-  const del = useMutation({ mutationFn: () => api(`/api/netlists/${n.id}`, { method: 'DELETE' }), onSuccess: () => window.location.assign(`/projects/${n.projectId}`) });
+  const del = useMutation({
+    mutationFn: () => api(`/api/netlists/${n.id}`, { method: 'DELETE' }),
+    onSuccess: () => window.location.assign(`/projects/${n.projectId}`),
+  });
   const editable = n.role === 'owner' || n.role === 'designer';
   return (
     <div className="space-y-2">
@@ -260,10 +290,13 @@ function NetlistHeader({ n }: { n: Netlist }) {
   );
 }
 
-function NetlistPage({ netlistId }: { netlistId: string }) {
+function NetlistPage({ netlistId, meId }: { netlistId: string; meId: string }) {
   const [selected, setSelected] = useState<string | null>(null);
   const n = useQuery({ queryKey: ['netlist', netlistId], queryFn: () => api<{ netlist: Netlist }>(`/api/netlists/${netlistId}`) });
-  const revs = useQuery({ queryKey: ['netlist', netlistId, 'revisions'], queryFn: () => api<{ revisions: Revision[] }>(`/api/netlists/${netlistId}/revisions`) });
+  const revs = useQuery({
+    queryKey: ['netlist', netlistId, 'revisions'],
+    queryFn: () => api<{ revisions: Revision[] }>(`/api/netlists/${netlistId}/revisions`),
+  });
   if (n.isPending) return <Loading what="the netlist" />;
   if (n.error) return <ErrorText error={n.error} />;
   const netlist = n.data.netlist;
@@ -273,7 +306,10 @@ function NetlistPage({ netlistId }: { netlistId: string }) {
     rc.accessor('number', {
       header: 'Revision',
       cell: (c) => (
-        <button className={`mono cursor-pointer font-medium ${c.row.original.id === current ? 'text-ink underline' : 'text-accent'}`} onClick={() => setSelected(c.row.original.id)}>
+        <button
+          className={`mono cursor-pointer font-medium ${c.row.original.id === current ? 'text-ink underline' : 'text-accent'}`}
+          onClick={() => setSelected(c.row.original.id)}
+        >
           {rev(c.getValue())}
         </button>
       ),
@@ -305,7 +341,7 @@ function NetlistPage({ netlistId }: { netlistId: string }) {
           />
         )}
       </Panel>
-      {current && <RevisionDetail key={current} revisionId={current} editable={editable} />}
+      {current && <RevisionDetail key={current} revisionId={current} netlistId={netlistId} role={netlist.role} meId={meId} />}
     </div>
   );
 }

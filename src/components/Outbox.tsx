@@ -59,7 +59,11 @@ function Outbox() {
               const shown = open === m.id || (open === null && m === q.data.messages[0]);
               return (
                 <li key={m.id}>
-                  <button className="flex w-full cursor-pointer items-baseline gap-3 px-3 py-2 text-left hover:bg-accent-soft" onClick={() => setOpen(shown ? '' : m.id)} aria-expanded={shown}>
+                  <button
+                    className="flex w-full cursor-pointer items-baseline gap-3 px-3 py-2 text-left hover:bg-accent-soft"
+                    onClick={() => setOpen(shown ? '' : m.id)}
+                    aria-expanded={shown}
+                  >
                     <span className="mono w-40 shrink-0 text-[12px] text-muted">{utc(m.date)}</span>
                     <span className="mono w-64 shrink-0 truncate text-[12px]">{m.to}</span>
                     <span className="flex-1 truncate font-medium">{m.subject}</span>

@@ -123,6 +123,14 @@ function describe(e: AuditEvent): string {
       return `deleted netlist ${s('name')}`;
     case 'revision.created':
       return `added revision r${s('number')} (${s('format')}, 0x${s('contentHash').slice(0, 8)})`;
+    case 'review.requested':
+      return 'asked for a review';
+    case 'review.approved':
+      return 'approved a revision (sign-off)';
+    case 'review.rejected':
+      return 'rejected a revision';
+    case 'review.withdrawn':
+      return 'withdrew a review request';
     case 'run.created':
       return `started a ${s('kind')} run in the ${s('place')}`;
     default:
@@ -203,7 +211,10 @@ const inviteForm = z.object({
 function InviteForm({ projectId }: { projectId: string }) {
   const qc = useQueryClient();
   const [sentTo, setSentTo] = useState<string | null>(null);
-  const { register, handleSubmit, formState, reset } = useForm<z.input<typeof inviteForm>, unknown, z.output<typeof inviteForm>>({ resolver: zodResolver(inviteForm), defaultValues: { email: '', role: 'designer' } });
+  const { register, handleSubmit, formState, reset } = useForm<z.input<typeof inviteForm>, unknown, z.output<typeof inviteForm>>({
+    resolver: zodResolver(inviteForm),
+    defaultValues: { email: '', role: 'designer' },
+  });
   const invite = useMutation({
     mutationFn: (v: z.infer<typeof inviteForm>) => api(`/api/projects/${projectId}/members`, { method: 'POST', json: v }),
     onSuccess: async (_d, v) => {
@@ -244,7 +255,8 @@ function Members({ projectId, role, meId }: { projectId: string; role: string; m
   const owner = role === 'owner';
   const refresh = () => qc.invalidateQueries({ queryKey: ['project', projectId] });
   const change = useMutation({
-    mutationFn: ({ userId, role }: { userId: string; role: string }) => api(`/api/projects/${projectId}/members/${userId}`, { method: 'PATCH', json: { role } }),
+    mutationFn: ({ userId, role }: { userId: string; role: string }) =>
+      api(`/api/projects/${projectId}/members/${userId}`, { method: 'PATCH', json: { role } }),
     onSettled: refresh,
   });
   const remove = useMutation({
@@ -337,7 +349,10 @@ const renameForm = z.object({ name: z.string().trim().min(1, 'Give the project a
 function ProjectHeader({ project }: { project: Project }) {
   const qc = useQueryClient();
   const [editing, setEditing] = useState(false);
-  const { register, handleSubmit, formState } = useForm({ resolver: zodResolver(renameForm), values: { name: project.name, description: project.description } });
+  const { register, handleSubmit, formState } = useForm({
+    resolver: zodResolver(renameForm),
+    values: { name: project.name, description: project.description },
+  });
   const save = useMutation({
     mutationFn: (v: z.infer<typeof renameForm>) => api(`/api/projects/${project.id}`, { method: 'PATCH', json: v }),
     onSuccess: async () => {
@@ -399,8 +414,14 @@ function ProjectHeader({ project }: { project: Project }) {
 function ProjectOverview({ projectId, meId }: { projectId: string; meId: string }) {
   const [creating, setCreating] = useState(false);
   const project = useQuery({ queryKey: ['project', projectId], queryFn: () => api<{ project: Project }>(`/api/projects/${projectId}`) });
-  const netlists = useQuery({ queryKey: ['project', projectId, 'netlists'], queryFn: () => api<{ netlists: NetlistRow[] }>(`/api/projects/${projectId}/netlists`) });
-  const audit = useQuery({ queryKey: ['project', projectId, 'audit'], queryFn: () => api<{ events: AuditEvent[] }>(`/api/projects/${projectId}/audit?limit=200`) });
+  const netlists = useQuery({
+    queryKey: ['project', projectId, 'netlists'],
+    queryFn: () => api<{ netlists: NetlistRow[] }>(`/api/projects/${projectId}/netlists`),
+  });
+  const audit = useQuery({
+    queryKey: ['project', projectId, 'audit'],
+    queryFn: () => api<{ events: AuditEvent[] }>(`/api/projects/${projectId}/audit?limit=200`),
+  });
   if (project.isPending) return <Loading what="the project" />;
   if (project.error) return <ErrorText error={project.error} />;
   const p = project.data.project;

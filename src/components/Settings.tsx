@@ -78,10 +78,17 @@ function PasswordForm() {
 
 function Verification({ user }: { user: User }) {
   const [status, setStatus] = useState<{ ok: boolean; text: string } | null>(null);
-  if (user.emailVerified) return <p className="p-3 text-[13px] text-ok">✓ <span className="mono">{user.email}</span> is verified.</p>;
+  if (user.emailVerified)
+    return (
+      <p className="p-3 text-[13px] text-ok">
+        ✓ <span className="mono">{user.email}</span> is verified.
+      </p>
+    );
   return (
     <div className="space-y-2 p-3 text-[13px]">
-      <p className="text-warn">! <span className="mono">{user.email}</span> is not verified yet.</p>
+      <p className="text-warn">
+        ! <span className="mono">{user.email}</span> is not verified yet.
+      </p>
       <button
         className="btn"
         onClick={async () => {

@@ -73,7 +73,12 @@ export function RunStatus({ status }: { status: string | null | undefined }) {
   );
 }
 
-const REVIEW_TONE: Record<string, string> = { approved: 'text-ok border-ok', rejected: 'text-bad border-bad', requested: 'text-warn border-warn', withdrawn: 'text-muted' };
+const REVIEW_TONE: Record<string, string> = {
+  approved: 'text-ok border-ok',
+  rejected: 'text-bad border-bad',
+  requested: 'text-warn border-warn',
+  withdrawn: 'text-muted',
+};
 
 export function ReviewState({ state }: { state: string | null | undefined }) {
   if (!state) return <span className="text-muted">not requested</span>;

@@ -28,9 +28,7 @@ function getTransport(): Transporter {
     const url = smtpUrl();
     transport = {
       key,
-      t: url
-        ? nodemailer.createTransport(url)
-        : nodemailer.createTransport({ streamTransport: true, buffer: true, newline: 'windows' }),
+      t: url ? nodemailer.createTransport(url) : nodemailer.createTransport({ streamTransport: true, buffer: true, newline: 'windows' }),
     };
   }
   return transport.t;
@@ -67,7 +65,10 @@ export function decodeHeader(value: string): string {
       bytes.push(
         kind.toUpperCase() === 'B'
           ? Buffer.from(data, 'base64')
-          : Buffer.from(data.replace(/_/g, ' ').replace(/=([0-9A-F]{2})/gi, (_, h: string) => String.fromCharCode(parseInt(h, 16))), 'latin1'),
+          : Buffer.from(
+              data.replace(/_/g, ' ').replace(/=([0-9A-F]{2})/gi, (_, h: string) => String.fromCharCode(parseInt(h, 16))),
+              'latin1',
+            ),
       );
     }
     // Keep a trailing blank that separated the run from plain text after it.

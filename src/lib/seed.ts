@@ -63,9 +63,30 @@ function skipVerilog(name: string, n: number, m: number): string {
 }
 
 export const DEMO_NETLISTS: { name: string; description: string; width: number; kind: NetlistKind; filename: string; content: () => string }[] = [
-  { name: 'acc-ripple-8', description: 'Accumulator adder, straightforward ripple-carry baseline.', width: 8, kind: 'ripple-carry', filename: 'acc_ripple8.v', content: () => rippleVerilog('acc_ripple8', 8) },
-  { name: 'acc-skip-8', description: 'Accumulator adder with carry bypass every 4 bits.', width: 8, kind: 'carry-skip', filename: 'acc_skip8.v', content: () => skipVerilog('acc_skip8', 8, 4) },
-  { name: 'tick-ripple-4', description: 'Tick counter increment stage.', width: 4, kind: 'ripple-carry', filename: 'tick_ripple4.v', content: () => rippleVerilog('tick_ripple4', 4) },
+  {
+    name: 'acc-ripple-8',
+    description: 'Accumulator adder, straightforward ripple-carry baseline.',
+    width: 8,
+    kind: 'ripple-carry',
+    filename: 'acc_ripple8.v',
+    content: () => rippleVerilog('acc_ripple8', 8),
+  },
+  {
+    name: 'acc-skip-8',
+    description: 'Accumulator adder with carry bypass every 4 bits.',
+    width: 8,
+    kind: 'carry-skip',
+    filename: 'acc_skip8.v',
+    content: () => skipVerilog('acc_skip8', 8, 4),
+  },
+  {
+    name: 'tick-ripple-4',
+    description: 'Tick counter increment stage.',
+    width: 4,
+    kind: 'ripple-carry',
+    filename: 'tick_ripple4.v',
+    content: () => rippleVerilog('tick_ripple4', 4),
+  },
 ];
 
 export interface SeedResult {
@@ -75,7 +96,10 @@ export interface SeedResult {
 
 /** Seeds only a database without users, so it never touches real data. */
 export async function seedDemo(db: Db): Promise<SeedResult> {
-  const existing = await db.select({ n: sql<number>`count(*)` }).from(user).get();
+  const existing = await db
+    .select({ n: sql<number>`count(*)` })
+    .from(user)
+    .get();
   if ((existing?.n ?? 0) > 0) return { seeded: false };
 
   const now = new Date();
@@ -88,7 +112,9 @@ export async function seedDemo(db: Db): Promise<SeedResult> {
   await db.transaction(async (tx) => {
     for (const [i, u] of DEMO_USERS.entries()) {
       await tx.insert(user).values({ id: ids[i], name: u.name, email: u.email, emailVerified: true, createdAt: now, updatedAt: now });
-      await tx.insert(account).values({ id: crypto.randomUUID(), accountId: ids[i], providerId: 'credential', userId: ids[i], password: hash, createdAt: now, updatedAt: now });
+      await tx
+        .insert(account)
+        .values({ id: crypto.randomUUID(), accountId: ids[i], providerId: 'credential', userId: ids[i], password: hash, createdAt: now, updatedAt: now });
     }
     await tx.insert(projects).values({
       id: projectId,
@@ -98,17 +124,44 @@ export async function seedDemo(db: Db): Promise<SeedResult> {
       createdAt: now,
       updatedAt: now,
     });
-    await recordAudit(tx, { projectId, actorId: ownerId, action: 'project.created', objectType: 'project', objectId: projectId, details: { name: 'Heron Bay sensor hub' } });
+    await recordAudit(tx, {
+      projectId,
+      actorId: ownerId,
+      action: 'project.created',
+      objectType: 'project',
+      objectId: projectId,
+      details: { name: 'Heron Bay sensor hub' },
+    });
     for (const [i, u] of DEMO_USERS.entries()) {
       await tx.insert(memberships).values({ projectId, userId: ids[i], role: u.role, createdAt: now });
-      if (i > 0) await recordAudit(tx, { projectId, actorId: ids[i], action: 'member.joined', objectType: 'member', objectId: ids[i], details: { role: u.role } });
+      if (i > 0)
+        await recordAudit(tx, { projectId, actorId: ids[i], action: 'member.joined', objectType: 'member', objectId: ids[i], details: { role: u.role } });
     }
     for (const n of DEMO_NETLISTS) {
       const netlistId = crypto.randomUUID();
       const content = n.content();
       const revisionId = crypto.randomUUID();
-      await tx.insert(netlists).values({ id: netlistId, projectId, name: n.name, description: n.description, width: n.width, kind: n.kind, createdBy: designerId, createdAt: now, updatedAt: now });
-      await recordAudit(tx, { projectId, actorId: designerId, action: 'netlist.created', objectType: 'netlist', objectId: netlistId, details: { name: n.name, width: n.width, kind: n.kind } });
+      await tx
+        .insert(netlists)
+        .values({
+          id: netlistId,
+          projectId,
+          name: n.name,
+          description: n.description,
+          width: n.width,
+          kind: n.kind,
+          createdBy: designerId,
+          createdAt: now,
+          updatedAt: now,
+        });
+      await recordAudit(tx, {
+        projectId,
+        actorId: designerId,
+        action: 'netlist.created',
+        objectType: 'netlist',
+        objectId: netlistId,
+        details: { name: n.name, width: n.width, kind: n.kind },
+      });
       await tx.insert(revisions).values({
         id: revisionId,
         netlistId,
@@ -122,7 +175,14 @@ export async function seedDemo(db: Db): Promise<SeedResult> {
         authorId: designerId,
         createdAt: now,
       });
-      await recordAudit(tx, { projectId, actorId: designerId, action: 'revision.created', objectType: 'revision', objectId: revisionId, details: { netlistId, number: 1, contentHash: sha256(content), format: 'verilog' } });
+      await recordAudit(tx, {
+        projectId,
+        actorId: designerId,
+        action: 'revision.created',
+        objectType: 'revision',
+        objectId: revisionId,
+        details: { netlistId, number: 1, contentHash: sha256(content), format: 'verilog' },
+      });
     }
   });
   return { seeded: true, projectId };

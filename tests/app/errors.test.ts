@@ -47,7 +47,11 @@ describe('malformed and invalid input', () => {
   });
 
   it('refuses a body that is not JSON', async () => {
-    const res = await callJson('POST', '/api/projects', { cookie: me.cookie, body: 'name=x', headers: { 'content-type': 'application/x-www-form-urlencoded' } });
+    const res = await callJson('POST', '/api/projects', {
+      cookie: me.cookie,
+      body: 'name=x',
+      headers: { 'content-type': 'application/x-www-form-urlencoded' },
+    });
     expect(res.status).toBe(415);
   });
 
@@ -73,6 +77,8 @@ describe('unknown ids answer 404', () => {
     ['GET', `/api/revisions/${missing}`],
     ['GET', `/api/revisions/${missing}/runs`],
     ['GET', `/api/runs/${missing}`],
+    ['GET', `/api/revisions/${missing}/reviews`],
+    ['GET', `/api/reviews/${missing}`],
   ])('%s %s', async (method, path) => {
     const res = await callJson(method, path, { cookie: me.cookie, ...(method !== 'GET' && method !== 'DELETE' && { json: { name: 'x' } }) });
     expect(res.status).toBe(404);

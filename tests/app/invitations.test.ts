@@ -92,7 +92,8 @@ describe('invitation flow', () => {
     const token = await tokenFor('gus@example.test');
     const gus = await signUp('Gus', 'gus@example.test');
     await callJson('POST', `/api/invitations/${token}`, { cookie: gus.cookie, json: {} });
-    const create = () => callJson('POST', `/api/projects/${projectId}/netlists`, { cookie: gus.cookie, json: { name: `g${Date.now()}`, width: 4, kind: 'ripple-carry' } });
+    const create = () =>
+      callJson('POST', `/api/projects/${projectId}/netlists`, { cookie: gus.cookie, json: { name: `g${Date.now()}`, width: 4, kind: 'ripple-carry' } });
     expect((await create()).status).toBe(403);
     const change = await callJson('PATCH', `/api/projects/${projectId}/members/${gus.id}`, { cookie: owner.cookie, json: { role: 'designer' } });
     expect(change.status).toBe(200);

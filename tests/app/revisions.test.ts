@@ -25,7 +25,10 @@ function bigText(n: number): string {
 beforeAll(async () => {
   designer = await signUp('Dee', 'dee@example.test');
   const p = await callJson('POST', '/api/projects', { cookie: designer.cookie, json: { name: 'Rev test' } });
-  const n = await callJson('POST', `/api/projects/${p.body.project.id}/netlists`, { cookie: designer.cookie, json: { name: 'add1', width: 1, kind: 'ripple-carry' } });
+  const n = await callJson('POST', `/api/projects/${p.body.project.id}/netlists`, {
+    cookie: designer.cookie,
+    json: { name: 'add1', width: 1, kind: 'ripple-carry' },
+  });
   expect(n.status).toBe(201);
   netlistId = n.body.netlist.id;
 });
@@ -94,7 +97,10 @@ describe('revisions', () => {
   });
 
   it('refuses 2 MiB + 1 byte of content in a JSON body with 413', async () => {
-    const res = await callJson('POST', `/api/netlists/${netlistId}/revisions`, { cookie: designer.cookie, json: { content: bigText(MIB2 + 1), format: 'verilog' } });
+    const res = await callJson('POST', `/api/netlists/${netlistId}/revisions`, {
+      cookie: designer.cookie,
+      json: { content: bigText(MIB2 + 1), format: 'verilog' },
+    });
     expect(res.status).toBe(413);
   });
 
@@ -129,7 +135,10 @@ describe('revisions', () => {
   it('needs a format or a file name for JSON bodies, and they must agree', async () => {
     const none = await callJson('POST', `/api/netlists/${netlistId}/revisions`, { cookie: designer.cookie, json: { content: verilog('x') } });
     expect(none.status).toBe(400);
-    const clash = await callJson('POST', `/api/netlists/${netlistId}/revisions`, { cookie: designer.cookie, json: { content: verilog('x'), format: 'json', filename: 'a.v' } });
+    const clash = await callJson('POST', `/api/netlists/${netlistId}/revisions`, {
+      cookie: designer.cookie,
+      json: { content: verilog('x'), format: 'json', filename: 'a.v' },
+    });
     expect(clash.status).toBe(400);
   });
 });

@@ -41,7 +41,13 @@ const CASES: Case[] = [
     body: () => ({ email: `invitee${++counter}@example.test`, role: 'viewer' }),
     allowed: OWNERS,
   },
-  { name: 'change role', method: 'PATCH', path: (f) => `/api/projects/${f.projectId}/members/${users.target.id}`, body: () => ({ role: 'reviewer' }), allowed: OWNERS },
+  {
+    name: 'change role',
+    method: 'PATCH',
+    path: (f) => `/api/projects/${f.projectId}/members/${users.target.id}`,
+    body: () => ({ role: 'reviewer' }),
+    allowed: OWNERS,
+  },
   { name: 'remove member', method: 'DELETE', path: (f) => `/api/projects/${f.projectId}/members/${users.target.id}`, allowed: OWNERS },
   { name: 'revoke invitation', method: 'DELETE', path: (f) => `/api/projects/${f.projectId}/invitations/${f.invitationId}`, allowed: OWNERS },
   { name: 'list netlists', method: 'GET', path: (f) => `/api/projects/${f.projectId}/netlists`, allowed: MEMBERS },
@@ -65,8 +71,24 @@ const CASES: Case[] = [
   },
   { name: 'read revision', method: 'GET', path: (f) => `/api/revisions/${f.revisionId}`, allowed: MEMBERS },
   { name: 'list runs', method: 'GET', path: (f) => `/api/revisions/${f.revisionId}/runs`, allowed: MEMBERS },
-  { name: 'create run', method: 'POST', path: (f) => `/api/revisions/${f.revisionId}/runs`, body: () => ({ kind: 'slowest-vector', seed: '42' }), allowed: EDITORS },
+  {
+    name: 'create run',
+    method: 'POST',
+    path: (f) => `/api/revisions/${f.revisionId}/runs`,
+    body: () => ({ kind: 'slowest-vector', seed: '42' }),
+    allowed: EDITORS,
+  },
   { name: 'read run', method: 'GET', path: (f) => `/api/runs/${f.runId}`, allowed: MEMBERS },
+  { name: 'list reviews', method: 'GET', path: (f) => `/api/revisions/${f.revisionId}/reviews`, allowed: MEMBERS },
+  { name: 'read review', method: 'GET', path: (f) => `/api/reviews/${f.reviewId}`, allowed: MEMBERS },
+  // The fixture's open review blocks a second request, so ask on a fresh revision.
+  {
+    name: 'approve review',
+    method: 'PATCH',
+    path: (f) => `/api/reviews/${f.reviewId}`,
+    body: () => ({ state: 'approved', comment: 'Settle time within budget.' }),
+    allowed: ['owner', 'reviewer'],
+  },
   { name: 'list audit', method: 'GET', path: (f) => `/api/projects/${f.projectId}/audit`, allowed: MEMBERS },
 ];
 
@@ -75,13 +97,16 @@ beforeAll(async () => {
 });
 
 async function fixture() {
-  return makeProject([
-    { userId: users.owner.id, role: 'owner' },
-    { userId: users.designer.id, role: 'designer' },
-    { userId: users.reviewer.id, role: 'reviewer' },
-    { userId: users.viewer.id, role: 'viewer' },
-    { userId: users.target.id, role: 'designer' },
-  ]);
+  return makeProject(
+    [
+      { userId: users.owner.id, role: 'owner' },
+      { userId: users.designer.id, role: 'designer' },
+      { userId: users.reviewer.id, role: 'reviewer' },
+      { userId: users.viewer.id, role: 'viewer' },
+      { userId: users.target.id, role: 'designer' },
+    ],
+    users.target.id,
+  );
 }
 
 describe.each(CASES)('$method $name', (c) => {

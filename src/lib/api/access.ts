@@ -4,7 +4,7 @@
  */
 import { and, eq } from 'drizzle-orm';
 import type { Db } from '../db';
-import { memberships, netlists, projects, revisions, runs, type Role } from '../db/schema';
+import { memberships, netlists, projects, reviews, revisions, runs, type Role } from '../db/schema';
 import { ApiError, fail } from './errors';
 
 export type Permission = 'read' | 'edit' | 'review' | 'manage';
@@ -27,7 +27,7 @@ export function can(role: Role | null, need: Permission): boolean {
   return role !== null && GRANTS[role].includes(need);
 }
 
-export type ScopeType = 'project' | 'netlist' | 'revision' | 'run';
+export type ScopeType = 'project' | 'netlist' | 'revision' | 'run' | 'review';
 
 export interface Scope {
   type: ScopeType | 'none';
@@ -61,6 +61,16 @@ async function projectOf(db: Db, type: ScopeType, id: string): Promise<string | 
         .innerJoin(revisions, eq(revisions.id, runs.revisionId))
         .innerJoin(netlists, eq(netlists.id, revisions.netlistId))
         .where(eq(runs.id, id))
+        .get();
+      return r?.p ?? null;
+    }
+    case 'review': {
+      const r = await db
+        .select({ p: netlists.projectId })
+        .from(reviews)
+        .innerJoin(revisions, eq(revisions.id, reviews.revisionId))
+        .innerJoin(netlists, eq(netlists.id, revisions.netlistId))
+        .where(eq(reviews.id, id))
         .get();
       return r?.p ?? null;
     }

@@ -29,12 +29,10 @@ export const fail = {
   forbidden: (message: string) => new ApiError(403, 'forbidden', message),
   notFound: (what: string, id: string) => new ApiError(404, 'not_found', `No ${what} with id "${id}" exists.`),
   conflict: (message: string) => new ApiError(409, 'conflict', message),
-  tooLarge: (limit: number) =>
-    new ApiError(413, 'payload_too_large', `The request is larger than the limit of ${formatBytes(limit)}. Send a smaller file.`),
+  tooLarge: (limit: number) => new ApiError(413, 'payload_too_large', `The request is larger than the limit of ${formatBytes(limit)}. Send a smaller file.`),
 };
 
 export function formatBytes(n: number): string {
   if (n >= 1024 * 1024 && n % (1024 * 1024) === 0) return `${n / (1024 * 1024)} MiB (${n} bytes)`;
   return `${n} bytes`;
 }
-

@@ -128,9 +128,7 @@ export function route<P extends z.ZodType = z.ZodObject<{}>, B extends z.ZodType
         const id = (params as Record<string, string>)[options.scope.param ?? 'id'];
         scope = await resolveScope(db, options.scope.type, id, user.id, options.scope.need);
       }
-      const body = options.body
-        ? parseWith(options.body, await readJson(context.request, options.bodyLimit))
-        : undefined;
+      const body = options.body ? parseWith(options.body, await readJson(context.request, options.bodyLimit)) : undefined;
       const out = await handler({
         request: context.request,
         url: new URL(context.request.url),
@@ -156,8 +154,7 @@ export function route<P extends z.ZodType = z.ZodObject<{}>, B extends z.ZodType
 
 /** For methods a resource does not allow (revisions are immutable). */
 export function methodNotAllowed(allow: string[], message: string) {
-  return async (): Promise<Response> =>
-    errorResponse(new ApiError(405, 'method_not_allowed', message), { allow: allow.join(', ') });
+  return async (): Promise<Response> => errorResponse(new ApiError(405, 'method_not_allowed', message), { allow: allow.join(', ') });
 }
 
 export const idParam = z.string().trim().min(1, 'must not be empty').max(100, 'is too long');

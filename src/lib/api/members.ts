@@ -48,14 +48,7 @@ export const listMembers = route({ params: idParams, scope: { type: 'project', n
     ? await db
         .select({ id: invitations.id, email: invitations.email, role: invitations.role, createdAt: invitations.createdAt, expiresAt: invitations.expiresAt })
         .from(invitations)
-        .where(
-          and(
-            eq(invitations.projectId, params.id),
-            isNull(invitations.acceptedAt),
-            isNull(invitations.revokedAt),
-            gt(invitations.expiresAt, new Date()),
-          ),
-        )
+        .where(and(eq(invitations.projectId, params.id), isNull(invitations.acceptedAt), isNull(invitations.revokedAt), gt(invitations.expiresAt, new Date())))
         .orderBy(asc(invitations.createdAt))
     : [];
   return { members, invitations: pending };
@@ -92,8 +85,17 @@ export const inviteMember = route(
     const now = new Date();
     const expiresAt = new Date(now.getTime() + INVITATION_DAYS * 24 * 3600 * 1000);
     await db.transaction(async (tx) => {
-      await tx.insert(invitations).values({ id, projectId: params.id, email: body.email, role: body.role, tokenHash: hashToken(token), invitedBy: me.id, createdAt: now, expiresAt });
-      await recordAudit(tx, { projectId: params.id, actorId: me.id, action: 'member.invited', objectType: 'invitation', objectId: id, details: { email: body.email, role: body.role } });
+      await tx
+        .insert(invitations)
+        .values({ id, projectId: params.id, email: body.email, role: body.role, tokenHash: hashToken(token), invitedBy: me.id, createdAt: now, expiresAt });
+      await recordAudit(tx, {
+        projectId: params.id,
+        actorId: me.id,
+        action: 'member.invited',
+        objectType: 'invitation',
+        objectId: id,
+        details: { email: body.email, role: body.role },
+      });
     });
     const link = `${publicOrigin()}/invite/${token}`;
     await sendMail({
@@ -118,51 +120,69 @@ export const changeMemberRole = route(
       throw fail.conflict('This is the only owner; make someone else owner first.');
     }
     await db.transaction(async (tx) => {
-      await tx.update(memberships).set({ role: body.role }).where(and(eq(memberships.projectId, params.id), eq(memberships.userId, params.userId)));
-      await recordAudit(tx, { projectId: params.id, actorId: me.id, action: 'member.role_changed', objectType: 'member', objectId: params.userId, details: { from: current, to: body.role } });
+      await tx
+        .update(memberships)
+        .set({ role: body.role })
+        .where(and(eq(memberships.projectId, params.id), eq(memberships.userId, params.userId)));
+      await recordAudit(tx, {
+        projectId: params.id,
+        actorId: me.id,
+        action: 'member.role_changed',
+        objectType: 'member',
+        objectId: params.userId,
+        details: { from: current, to: body.role },
+      });
     });
     return { member: { userId: params.userId, role: body.role } };
   },
 );
 
 /** Owners remove anyone; every member may leave on their own. */
-export const removeMember = route(
-  { params: memberParams, scope: { type: 'project', need: 'read' } },
-  async ({ db, params, user: me, scope }) => {
-    if (params.userId !== me.id && !can(scope.role, 'manage')) {
-      throw fail.forbidden(`Your role here is ${scope.role}; only owners remove other members.`);
-    }
-    const current = await roleIn(db, params.id, params.userId);
-    if (!current) throw fail.notFound('member', params.userId);
-    if (current === 'owner' && (await ownerCount(db, params.id)) <= 1) {
-      throw fail.conflict('This is the only owner; make someone else owner first, or delete the project.');
-    }
-    await db.transaction(async (tx) => {
-      await tx.delete(memberships).where(and(eq(memberships.projectId, params.id), eq(memberships.userId, params.userId)));
-      await recordAudit(tx, { projectId: params.id, actorId: me.id, action: params.userId === me.id ? 'member.left' : 'member.removed', objectType: 'member', objectId: params.userId, details: { role: current } });
+export const removeMember = route({ params: memberParams, scope: { type: 'project', need: 'read' } }, async ({ db, params, user: me, scope }) => {
+  if (params.userId !== me.id && !can(scope.role, 'manage')) {
+    throw fail.forbidden(`Your role here is ${scope.role}; only owners remove other members.`);
+  }
+  const current = await roleIn(db, params.id, params.userId);
+  if (!current) throw fail.notFound('member', params.userId);
+  if (current === 'owner' && (await ownerCount(db, params.id)) <= 1) {
+    throw fail.conflict('This is the only owner; make someone else owner first, or delete the project.');
+  }
+  await db.transaction(async (tx) => {
+    await tx.delete(memberships).where(and(eq(memberships.projectId, params.id), eq(memberships.userId, params.userId)));
+    await recordAudit(tx, {
+      projectId: params.id,
+      actorId: me.id,
+      action: params.userId === me.id ? 'member.left' : 'member.removed',
+      objectType: 'member',
+      objectId: params.userId,
+      details: { role: current },
     });
-    return { removed: { userId: params.userId } };
-  },
-);
+  });
+  return { removed: { userId: params.userId } };
+});
 
-export const revokeInvitation = route(
-  { params: invitationParams, scope: { type: 'project', need: 'manage' } },
-  async ({ db, params, user: me }) => {
-    const inv = await db
-      .select()
-      .from(invitations)
-      .where(and(eq(invitations.id, params.invitationId), eq(invitations.projectId, params.id)))
-      .get();
-    if (!inv) throw fail.notFound('invitation', params.invitationId);
-    if (inv.acceptedAt) throw fail.conflict('This invitation was already accepted; remove the member instead.');
-    if (inv.revokedAt) return { revoked: { id: inv.id } };
-    await db.transaction(async (tx) => {
-      await tx.update(invitations).set({ revokedAt: new Date() }).where(eq(invitations.id, inv.id));
-      await recordAudit(tx, { projectId: params.id, actorId: me.id, action: 'invitation.revoked', objectType: 'invitation', objectId: inv.id, details: { email: inv.email } });
+export const revokeInvitation = route({ params: invitationParams, scope: { type: 'project', need: 'manage' } }, async ({ db, params, user: me }) => {
+  const inv = await db
+    .select()
+    .from(invitations)
+    .where(and(eq(invitations.id, params.invitationId), eq(invitations.projectId, params.id)))
+    .get();
+  if (!inv) throw fail.notFound('invitation', params.invitationId);
+  if (inv.acceptedAt) throw fail.conflict('This invitation was already accepted; remove the member instead.');
+  if (inv.revokedAt) return { revoked: { id: inv.id } };
+  await db.transaction(async (tx) => {
+    await tx.update(invitations).set({ revokedAt: new Date() }).where(eq(invitations.id, inv.id));
+    await recordAudit(tx, {
+      projectId: params.id,
+      actorId: me.id,
+      action: 'invitation.revoked',
+      objectType: 'invitation',
+      objectId: inv.id,
+      details: { email: inv.email },
     });
-    return { revoked: { id: inv.id } };
-  },
-);
+  });
+  return { revoked: { id: inv.id } };
+});
 
 type InvitationStatus = 'pending' | 'accepted' | 'revoked' | 'expired';
 
@@ -206,7 +226,14 @@ export const acceptInvitation = route({ params: tokenParams }, async ({ db, para
   await db.transaction(async (tx) => {
     await tx.insert(memberships).values({ projectId: inv.projectId, userId: me.id, role: r, createdAt: new Date() });
     await tx.update(invitations).set({ acceptedAt: new Date(), acceptedBy: me.id }).where(eq(invitations.id, inv.id));
-    await recordAudit(tx, { projectId: inv.projectId, actorId: me.id, action: 'member.joined', objectType: 'member', objectId: me.id, details: { role: r, invitationId: inv.id } });
+    await recordAudit(tx, {
+      projectId: inv.projectId,
+      actorId: me.id,
+      action: 'member.joined',
+      objectType: 'member',
+      objectId: me.id,
+      details: { role: r, invitationId: inv.id },
+    });
   });
   return { membership: { projectId: inv.projectId, role: r } };
 });

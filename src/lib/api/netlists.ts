@@ -48,9 +48,21 @@ export async function netlistSummaries(db: Db, projectId: string, onlyId?: strin
     .orderBy(netlists.name);
   if (rows.length === 0) return [];
   const revs = await db
-    .select({ id: revisions.id, netlistId: revisions.netlistId, number: revisions.number, format: revisions.format, createdAt: revisions.createdAt, contentHash: revisions.contentHash })
+    .select({
+      id: revisions.id,
+      netlistId: revisions.netlistId,
+      number: revisions.number,
+      format: revisions.format,
+      createdAt: revisions.createdAt,
+      contentHash: revisions.contentHash,
+    })
     .from(revisions)
-    .where(inArray(revisions.netlistId, rows.map((r) => r.id)))
+    .where(
+      inArray(
+        revisions.netlistId,
+        rows.map((r) => r.id),
+      ),
+    )
     .orderBy(desc(revisions.number));
   const latest = new Map<string, (typeof revs)[number]>();
   for (const r of revs) if (!latest.has(r.netlistId)) latest.set(r.netlistId, r);
@@ -74,7 +86,10 @@ export async function netlistSummaries(db: Db, projectId: string, onlyId?: strin
     const run = rev ? (lastRuns.find((r) => r.revisionId === rev.id) ?? null) : null;
     // Worst delay over this revision's finished runs that report one (result.worstDelay, time units).
     const delays = rev
-      ? lastRuns.filter((r) => r.revisionId === rev.id).map((r) => r.result?.worstDelay).filter((d): d is number => typeof d === 'number')
+      ? lastRuns
+          .filter((r) => r.revisionId === rev.id)
+          .map((r) => r.result?.worstDelay)
+          .filter((d): d is number => typeof d === 'number')
       : [];
     const review = rev ? (lastReviews.find((r) => r.revisionId === rev.id) ?? null) : null;
     return {
@@ -100,7 +115,14 @@ export const createNetlist = route(
     const at = new Date();
     await db.transaction(async (tx) => {
       await tx.insert(netlists).values({ id, projectId: params.id, ...body, createdBy: user.id, createdAt: at, updatedAt: at });
-      await recordAudit(tx, { projectId: params.id, actorId: user.id, action: 'netlist.created', objectType: 'netlist', objectId: id, details: { name: body.name, width: body.width, kind: body.kind } });
+      await recordAudit(tx, {
+        projectId: params.id,
+        actorId: user.id,
+        action: 'netlist.created',
+        objectType: 'netlist',
+        objectId: id,
+        details: { name: body.name, width: body.width, kind: body.kind },
+      });
     });
     const [netlist] = await netlistSummaries(db, params.id, id);
     return json({ netlist }, 201);
@@ -119,7 +141,10 @@ export const updateNetlist = route(
     const before = await db.select().from(netlists).where(eq(netlists.id, params.id)).get();
     const changes = Object.fromEntries(Object.entries(body).filter(([, v]) => v !== undefined));
     await db.transaction(async (tx) => {
-      await tx.update(netlists).set({ ...changes, updatedAt: new Date() }).where(eq(netlists.id, params.id));
+      await tx
+        .update(netlists)
+        .set({ ...changes, updatedAt: new Date() })
+        .where(eq(netlists.id, params.id));
       await recordAudit(tx, {
         projectId: scope.projectId,
         actorId: user.id,
@@ -146,7 +171,14 @@ export const deleteNetlist = route({ params: idParams, scope: { type: 'netlist',
   const before = await db.select().from(netlists).where(eq(netlists.id, params.id)).get();
   await db.transaction(async (tx) => {
     await tx.delete(netlists).where(eq(netlists.id, params.id));
-    await recordAudit(tx, { projectId: scope.projectId, actorId: user.id, action: 'netlist.deleted', objectType: 'netlist', objectId: params.id, details: { name: before?.name } });
+    await recordAudit(tx, {
+      projectId: scope.projectId,
+      actorId: user.id,
+      action: 'netlist.deleted',
+      objectType: 'netlist',
+      objectId: params.id,
+      details: { name: before?.name },
+    });
   });
   return { deleted: { id: params.id } };
 });

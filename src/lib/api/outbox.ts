@@ -6,7 +6,11 @@ import { outboxActive, readOutbox } from '../mail';
 import { ApiError, fail, route } from './http';
 
 export async function isSomeOwner(db: Db, userId: string): Promise<boolean> {
-  const r = await db.select({ p: memberships.projectId }).from(memberships).where(and(eq(memberships.userId, userId), eq(memberships.role, 'owner'))).get();
+  const r = await db
+    .select({ p: memberships.projectId })
+    .from(memberships)
+    .where(and(eq(memberships.userId, userId), eq(memberships.role, 'owner')))
+    .get();
   return !!r;
 }
 

@@ -6,11 +6,7 @@ import { auditEvents, memberships, netlists, projects } from '../db/schema';
 import { recordAudit } from './audit';
 import { idParams, json, route } from './http';
 
-export const projectName = z
-  .string()
-  .trim()
-  .min(1, 'give the project a name')
-  .max(80, 'keep the name to 80 characters or fewer');
+export const projectName = z.string().trim().min(1, 'give the project a name').max(80, 'keep the name to 80 characters or fewer');
 export const projectDescription = z.string().trim().max(2000, 'keep the description to 2000 characters or fewer');
 
 export const createProjectBody = z.object({ name: projectName, description: projectDescription.default('') }).strict();
@@ -78,7 +74,11 @@ export const updateProject = route(
     await db.transaction(async (tx) => {
       await tx
         .update(projects)
-        .set({ ...(body.name !== undefined && { name: body.name }), ...(body.description !== undefined && { description: body.description }), updatedAt: new Date() })
+        .set({
+          ...(body.name !== undefined && { name: body.name }),
+          ...(body.description !== undefined && { description: body.description }),
+          updatedAt: new Date(),
+        })
         .where(eq(projects.id, params.id));
       await recordAudit(tx, {
         projectId: params.id,
@@ -98,7 +98,14 @@ export const deleteProject = route({ params: idParams, scope: { type: 'project',
   const before = await db.select().from(projects).where(eq(projects.id, params.id)).get();
   await db.transaction(async (tx) => {
     // The event outlives the project (its project_id becomes null), so the deletion stays on record.
-    await recordAudit(tx, { projectId: params.id, actorId: user.id, action: 'project.deleted', objectType: 'project', objectId: params.id, details: { name: before?.name } });
+    await recordAudit(tx, {
+      projectId: params.id,
+      actorId: user.id,
+      action: 'project.deleted',
+      objectType: 'project',
+      objectId: params.id,
+      details: { name: before?.name },
+    });
     await tx.delete(projects).where(and(eq(projects.id, params.id)));
   });
   return { deleted: { id: params.id } };

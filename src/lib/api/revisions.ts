@@ -155,7 +155,14 @@ export const createRevision = route({ params: idParams, scope: { type: 'netlist'
       authorId: me.id,
       createdAt: new Date(),
     });
-    await recordAudit(tx, { projectId: scope.projectId, actorId: me.id, action: 'revision.created', objectType: 'revision', objectId: id, details: { netlistId: params.id, number: n, contentHash: hash, format: inc.format } });
+    await recordAudit(tx, {
+      projectId: scope.projectId,
+      actorId: me.id,
+      action: 'revision.created',
+      objectType: 'revision',
+      objectId: id,
+      details: { netlistId: params.id, number: n, contentHash: hash, format: inc.format },
+    });
     return n;
   });
   const revision = await db.select(summary).from(revisions).leftJoin(user, eq(user.id, revisions.authorId)).where(eq(revisions.id, id)).get();

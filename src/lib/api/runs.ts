@@ -17,7 +17,13 @@ export const createRunBody = z
     parameters: z.record(z.string(), z.unknown()).default({}),
     // Seeds are decimal strings so 64-bit values survive JSON.
     seed: z
-      .union([z.string().trim().regex(/^\d{1,20}$/, 'seed must be a whole number of up to 20 digits'), z.number().int().nonnegative().max(Number.MAX_SAFE_INTEGER)])
+      .union([
+        z
+          .string()
+          .trim()
+          .regex(/^\d{1,20}$/, 'seed must be a whole number of up to 20 digits'),
+        z.number().int().nonnegative().max(Number.MAX_SAFE_INTEGER),
+      ])
       .transform(String)
       .optional(),
     place: z.enum(RUN_PLACES, { error: 'place must be "browser" or "server"' }).default('server'),
@@ -66,7 +72,14 @@ export const createRun = route(
         createdBy: me.id,
         createdAt: new Date(),
       });
-      await recordAudit(tx, { projectId: scope.projectId, actorId: me.id, action: 'run.created', objectType: 'run', objectId: id, details: { revisionId: params.id, kind: body.kind, place: body.place } });
+      await recordAudit(tx, {
+        projectId: scope.projectId,
+        actorId: me.id,
+        action: 'run.created',
+        objectType: 'run',
+        objectId: id,
+        details: { revisionId: params.id, kind: body.kind, place: body.place },
+      });
     });
     const run = await db.select(columns).from(runs).leftJoin(user, eq(user.id, runs.createdBy)).where(eq(runs.id, id)).get();
     return json({ run }, 201);

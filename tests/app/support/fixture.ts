@@ -1,10 +1,11 @@
 /** Test data written straight to the database, for tests about the API rather than about setup. */
 import crypto from 'node:crypto';
 import { getDb } from '../../../src/lib/db';
-import { invitations, memberships, netlists, projects, revisions, runs, type Role } from '../../../src/lib/db/schema';
+import { invitations, memberships, netlists, projects, reviews, revisions, runs, type Role } from '../../../src/lib/db/schema';
 import { sha256 } from '../../../src/lib/api/revisions';
 
-export async function makeProject(members: { userId: string; role: Role }[]) {
+/** A project with the given members, one netlist, its r1, a run, a pending invitation and an open review requested by `requesterId`. */
+export async function makeProject(members: { userId: string; role: Role }[], requesterId?: string) {
   const db = await getDb();
   const now = new Date();
   const projectId = crypto.randomUUID();
@@ -12,11 +13,25 @@ export async function makeProject(members: { userId: string; role: Role }[]) {
   const revisionId = crypto.randomUUID();
   const runId = crypto.randomUUID();
   const invitationId = crypto.randomUUID();
-  const content = 'module add1(input a, input b, input cin, output s, output cout);\n  assign s = a ^ b ^ cin;\n  assign cout = (a & b) | (cin & (a ^ b));\nendmodule\n';
+  const reviewId = crypto.randomUUID();
+  const content =
+    'module add1(input a, input b, input cin, output s, output cout);\n  assign s = a ^ b ^ cin;\n  assign cout = (a & b) | (cin & (a ^ b));\nendmodule\n';
   await db.insert(projects).values({ id: projectId, name: 'Fixture ' + projectId.slice(0, 6), createdAt: now, updatedAt: now });
   for (const m of members) await db.insert(memberships).values({ projectId, userId: m.userId, role: m.role, createdAt: now });
   await db.insert(netlists).values({ id: netlistId, projectId, name: 'add1', width: 1, kind: 'ripple-carry', createdAt: now, updatedAt: now });
-  await db.insert(revisions).values({ id: revisionId, netlistId, number: 1, format: 'verilog', filename: 'add1.v', content, contentHash: sha256(content), sizeBytes: content.length, createdAt: now });
+  await db
+    .insert(revisions)
+    .values({
+      id: revisionId,
+      netlistId,
+      number: 1,
+      format: 'verilog',
+      filename: 'add1.v',
+      content,
+      contentHash: sha256(content),
+      sizeBytes: content.length,
+      createdAt: now,
+    });
   await db.insert(runs).values({ id: runId, revisionId, kind: 'equivalence', parameters: {}, engineVersion: 'test', place: 'server', createdAt: now });
   await db.insert(invitations).values({
     id: invitationId,
@@ -27,5 +42,6 @@ export async function makeProject(members: { userId: string; role: Role }[]) {
     createdAt: now,
     expiresAt: new Date(now.getTime() + 86400_000),
   });
-  return { projectId, netlistId, revisionId, runId, invitationId, content };
+  await db.insert(reviews).values({ id: reviewId, revisionId, requesterId: requesterId ?? members[0]?.userId, state: 'requested', createdAt: now });
+  return { projectId, netlistId, revisionId, runId, invitationId, reviewId, content };
 }

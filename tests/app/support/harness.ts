@@ -42,7 +42,10 @@ interface Compiled {
 
 const routes: Compiled[] = Object.entries(modules)
   .map(([file, mod]) => {
-    const rel = file.split('src/pages')[1].replace(/\.ts$/, '').replace(/\/index$/, '');
+    const rel = file
+      .split('src/pages')[1]
+      .replace(/\.ts$/, '')
+      .replace(/\/index$/, '');
     const names: string[] = [];
     let rank = 0;
     const pattern = rel
@@ -82,7 +85,10 @@ export async function call(method: string, pathAndQuery: string, opts: CallOptio
   const route = routes.find((r) => r.regex.test(url.pathname));
   if (!route) throw new Error(`no route for ${url.pathname}`);
   const m = route.regex.exec(url.pathname)!;
-  const params = Object.fromEntries(route.names.map((n, i) => [n, m[i + 1] === undefined ? undefined : decodeURIComponent(m[i + 1])])) as Record<string, string>;
+  const params = Object.fromEntries(route.names.map((n, i) => [n, m[i + 1] === undefined ? undefined : decodeURIComponent(m[i + 1])])) as Record<
+    string,
+    string
+  >;
   const handler = route.mod[method] ?? route.mod.ALL;
   if (!handler) return new Response(null, { status: 404 });
   const headers: Record<string, string> = { origin: ORIGIN, ...opts.headers };

@@ -1,0 +1,5 @@
+import { decideReview, getReview } from '../../../lib/api/reviews';
+
+export const GET = getReview;
+// Approve, reject or withdraw: `{state, comment}`.
+export const PATCH = decideReview;

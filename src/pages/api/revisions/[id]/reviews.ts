@@ -1,0 +1,4 @@
+import { listReviews, requestReview } from '../../../../lib/api/reviews';
+
+export const GET = listReviews;
+export const POST = requestReview;
