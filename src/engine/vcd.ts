@@ -173,3 +173,12 @@ export function simulateAdderVcd(
   });
   return { steps, vcd: writeVcd(flat, { initial, vectors: changes, period }, options), period };
 }
+
+/** The VCD alone of `simulateAdderVcd`, for a prepared adder (pipeline.ts). */
+export function writeVcdForVectors(
+  adder: { flat: FlatNetlist; compiled: CompiledNetlist; ports: AdderPorts },
+  vectors: readonly Vector[],
+  options: AdderSimOptions & VcdOptions = {},
+): string {
+  return simulateAdderVcd(adder.flat, adder.compiled, adder.ports, vectors, options).vcd;
+}

@@ -11,15 +11,13 @@ export interface VectorFileOptions {
   width: number;
   /** False when the design has no carry-in: CIN must then be 0. Default true. */
   hasCin?: boolean;
-  /** Name used in messages. Default `vectors.txt`. */
-  fileName?: string;
 }
 
 const HEX = /^0[xX][0-9a-fA-F]+$/;
 const DEC = /^[0-9]+$/;
 
-export function parseVectors(text: string, opts: VectorFileOptions): Vector[] {
-  const fileName = opts.fileName ?? 'vectors.txt';
+/** Read a vector file; `fileName` names it in messages (`vectors.txt:7: …`). */
+export function parseVectors(text: string, fileName: string, opts: VectorFileOptions): Vector[] {
   const limit = 1n << BigInt(opts.width);
   const vectors: Vector[] = [];
   text.split(/\r?\n/).forEach((raw, i) => {
