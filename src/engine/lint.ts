@@ -156,8 +156,9 @@ interface BitUse {
   readers: string[];
   /** Cells driving the bit, for the dangling-output warning. */
   driverCells: string[];
+  /** Connected to a cell of unknown kind, which may drive it: no undriven finding then. */
+  opaque?: boolean;
 }
-
 
 class ModuleChecker {
   private readonly nets = new Map<string, NetDecl>();
@@ -243,6 +244,7 @@ class ModuleChecker {
     const known = cell.kind === 'expr' || (BUILTIN_KINDS as readonly string[]).includes(cell.kind);
     if (!known) {
       this.out.error('unknown-kind', where, `cell '${cell.name}' has unknown kind '${cell.kind}'${atLine(cell.loc)}; the kinds are ${[...BUILTIN_KINDS, 'expr'].join(', ')}`);
+      this.markOpaque(cell.pins, `cell '${cell.name}'`, cell.loc);
       return;
     }
     const inputs = inputPinsOf(cell);
@@ -263,6 +265,16 @@ class ModuleChecker {
         const use = this.use(bit, `cell '${cell.name}' pin ${pin}`, cell.loc);
         use?.drivers.push(`cell ${cell.name}${outputs.length > 1 ? ` (${pin})` : ''}`);
         use?.driverCells.push(cell.name);
+      }
+    }
+  }
+
+  /** Bits on a cell or instance whose pin directions are unknown may be driven by it. */
+  private markOpaque(pins: Record<string, Signal>, what: string, loc?: SourceLoc): void {
+    for (const [pin, signal] of Object.entries(pins)) {
+      for (const bit of signal) {
+        const use = this.use(bit, `${what} pin ${pin}`, loc);
+        if (use) use.opaque = true;
       }
     }
   }
@@ -320,6 +332,7 @@ class ModuleChecker {
     const child = this.modules.get(inst.module);
     if (!child) {
       this.out.error('unknown-module', where, `instance '${inst.name}' is of module '${inst.module}', which is not defined${atLine(inst.loc)}; define it or fix the name`);
+      this.markOpaque(inst.connections, `instance '${inst.name}'`, inst.loc);
       return;
     }
     for (const [port, signal] of Object.entries(inst.connections)) {
@@ -359,7 +372,7 @@ class ModuleChecker {
     for (const [net, uses] of byNet) {
       const where = this.where(`net ${uses.length === 1 ? uses[0].label : net}`);
       const loc = this.nets.get(net)?.loc;
-      const undriven = uses.filter((u) => u.drivers.length === 0 && u.readers.length > 0);
+      const undriven = uses.filter((u) => u.drivers.length === 0 && u.readers.length > 0 && !u.opaque);
       if (undriven.length > 0) {
         const bits = undriven.length === uses.length && uses.length > 1 ? `every bit of '${net}'` : listed(undriven.map((u) => u.label));
         this.out.error('undriven', where, `${bits} ${undriven.length > 1 ? 'have' : 'has'} no driver but ${undriven.length > 1 ? 'are' : 'is'} read by ${listed([...new Set(undriven.flatMap((u) => u.readers))])}${atLine(loc)}; drive it from a cell, an input port or a constant`);
