@@ -269,7 +269,7 @@ class ModuleChecker {
     }
   }
 
-  /** Bits on a cell or instance whose pin directions are unknown may be driven by it. */
+  /** Bits on a cell or instance pin lint cannot read (unknown kind or module, wrong width) may be driven by it. */
   private markOpaque(pins: Record<string, Signal>, what: string, loc?: SourceLoc): void {
     for (const [pin, signal] of Object.entries(pins)) {
       for (const bit of signal) {
@@ -322,6 +322,7 @@ class ModuleChecker {
     }
     if (signal.length !== 1) {
       this.out.error('width', where, `pin ${pin} of cell '${cell.name}' is connected to ${signal.length} bits (${signalText(signal)})${atLine(cell.loc)}; a pin takes exactly 1 bit`);
+      this.markOpaque({ [pin]: signal }, `cell '${cell.name}'`, cell.loc);
       return null;
     }
     return signal[0];
@@ -345,6 +346,7 @@ class ModuleChecker {
       const width = declWidth(child.nets.find((n) => n.name === port)?.range ?? null);
       if (signal.length !== width) {
         this.out.error('width', where, `port '${port}' of '${child.name}' is ${width} bit${width > 1 ? 's' : ''} wide but instance '${inst.name}' connects ${signal.length} (${signalText(signal)})${atLine(inst.loc)}`);
+        this.markOpaque({ [port]: signal }, `instance '${inst.name}'`, inst.loc);
         continue;
       }
       for (const bit of signal) {

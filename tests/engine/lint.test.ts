@@ -82,6 +82,8 @@ describe('lint (SPEC §2): errors name what they concern', () => {
     expect(run(edited('xor x0 (t0, a[0], b[0]);', 'xor x0 (t0, a, b[0]);')).errors).toEqual([
       { code: 'width', where: 'module add2, cell x0', message: expect.stringMatching(/^pin i0 of cell 'x0' is connected to 2 bits \(a\[1\], a\[0\]\) \(line 3\); a pin takes exactly 1 bit$/) },
     ]);
+    // An output pin on two bits: one width finding, no undriven finding for the bits it may drive.
+    expect(codes(run(edited('xor s1 (s[1], t1, c1);', 'xor s1 (s, t1, c1);')).errors)).toEqual(['width']);
     const r = run(`${ADDER.replace('endmodule', 'sub u (.p(a), .q());\nendmodule')}\nmodule sub (input [2:0] p, output q); buf (q, p[0]); endmodule`);
     expect(r.errors.map((e) => [e.code, e.where])).toEqual([['width', 'module add2, instance u']]);
     expect(r.errors[0].message).toMatch(/^port 'p' of 'sub' is 3 bits wide but instance 'u' connects 2 \(a\[1\], a\[0\]\)/);
