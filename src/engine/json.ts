@@ -20,7 +20,7 @@ import {
   type Module,
   type Signal,
 } from './model';
-import { parseVerilog } from './verilog/parse';
+import { parseVerilog, TIMESCALE } from './verilog/parse';
 
 export const NETLIST_FORMAT = 'skiplane-netlist';
 export const NETLIST_VERSION = 1;
@@ -88,7 +88,7 @@ const documentSchema = z.strictObject({
   format: z.literal(NETLIST_FORMAT, { error: `"format" must be "${NETLIST_FORMAT}"` }),
   version: z.literal(NETLIST_VERSION, { error: `"version" must be ${NETLIST_VERSION}; this Skiplane reads version ${NETLIST_VERSION} documents` }),
   top: name('module'),
-  timescale: z.string().optional(),
+  timescale: z.string().regex(TIMESCALE, { error: 'a time scale looks like "1ps/1ps" or "1ns"' }).optional(),
   delayTable: delayTableSchema.optional(),
   modules: z.array(moduleSchema),
 });

@@ -103,6 +103,7 @@ describe('parseDesignJson: errors name the JSON path of the bad field', () => {
     [(d: any) => (d.top = 'nothere'), "net.json: top: module 'nothere' is not among the modules (top)"],
     [(d: any) => (d.modules[0].cells[0].expr = { op: 'nand' }), /modules\[0\]\.cells\[0\]\.expr\.op: unknown expression operator 'nand'; expected one of in, const, not, and, or, xor, mux$/],
     [(d: any) => (d.delayTable.adder = {}), "net.json: delayTable: unknown cell kind 'adder'; expected one of buf, not, and, or, nand, nor, xor, xnor, mux2, ha, fa"],
+    [(d: any) => (d.timescale = '1 parsec'), 'net.json: timescale: a time scale looks like "1ps/1ps" or "1ns"'],
     [(d: any) => (d.modules[0].nets[0].name = 'a b'), 'net.json: modules[0].nets[0].name: a net name is a non-empty string without spaces'],
   ])('%#', (edit, expected) => {
     const message = jsonError(docWith(edit));

@@ -42,6 +42,9 @@ const UNSUPPORTED_OPERATORS = new Set(['+', '-', '*', '/', '%', '**', '<<', '>>'
 
 const MAX_NESTING = 256;
 
+/** A time scale, `1ps/1ps` (IEEE 1364 §19.8); the native JSON also accepts the unit alone, `1ps`. */
+export const TIMESCALE = /^(1|10|100)(s|ms|us|ns|ps|fs)(\/(1|10|100)(s|ms|us|ns|ps|fs))?$/;
+
 class Parser {
   private pos = 0;
   private depth = 0;
@@ -156,7 +159,7 @@ class Parser {
     const [word, ...rest] = t.text.split(/\s+/);
     if (word === '`timescale') {
       const spec = rest.join('');
-      if (!/^(1|10|100)(s|ms|us|ns|ps|fs)\/(1|10|100)(s|ms|us|ns|ps|fs)$/.test(spec)) {
+      if (!TIMESCALE.test(spec) || !spec.includes('/')) {
         this.fail(t.loc, `expected a time scale like \`timescale 1ps/1ps, found '${t.text}'`);
       }
       return spec;
