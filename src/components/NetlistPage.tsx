@@ -2,7 +2,7 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { createColumnHelper } from '@tanstack/react-table';
-import { useState } from 'react';
+import { useEffect, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { z } from 'zod';
 import { api } from './api';
@@ -17,6 +17,7 @@ const MAX_BYTES = 2 * 1024 * 1024;
 
 interface Netlist extends NetlistRow {
   projectId: string;
+  projectName: string;
   role: string;
 }
 interface Revision {
@@ -240,10 +241,13 @@ function NetlistHeader({ n }: { n: Netlist }) {
     onSuccess: () => window.location.assign(`/projects/${n.projectId}`),
   });
   const editable = n.role === 'owner' || n.role === 'designer';
+  useEffect(() => {
+    document.title = `${n.name} · ${n.projectName} · Skiplane`;
+  }, [n.name, n.projectName]);
   return (
     <div className="space-y-2">
       <nav className="text-[12px] text-muted" aria-label="Breadcrumb">
-        <a href="/">Projects</a> <span className="mx-1">/</span> <a href={`/projects/${n.projectId}`}>Project</a> <span className="mx-1">/</span> netlist
+        <a href="/">Projects</a> <span className="mx-1">/</span> <a href={`/projects/${n.projectId}`}>{n.projectName}</a> <span className="mx-1">/</span> <span className="mono">{n.name}</span>
       </nav>
       {editing ? (
         <form onSubmit={handleSubmit((v) => save.mutate(v))} className="panel grid gap-3 p-3 md:grid-cols-[1fr_2fr_auto]" noValidate>

@@ -2,7 +2,7 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { createColumnHelper } from '@tanstack/react-table';
-import { useState } from 'react';
+import { useEffect, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { z } from 'zod';
 import { api } from './api';
@@ -364,6 +364,9 @@ function ProjectHeader({ project }: { project: Project }) {
     mutationFn: () => api(`/api/projects/${project.id}`, { method: 'DELETE' }),
     onSuccess: () => window.location.assign('/'),
   });
+  useEffect(() => {
+    document.title = `${project.name} · Skiplane`;
+  }, [project.name]);
   if (editing)
     return (
       <form onSubmit={handleSubmit((v) => save.mutate(v))} className="panel grid gap-3 p-3 md:grid-cols-[1fr_2fr_auto]" noValidate>
@@ -387,6 +390,9 @@ function ProjectHeader({ project }: { project: Project }) {
   return (
     <div className="flex flex-wrap items-start gap-3">
       <div className="min-w-0 flex-1">
+        <nav className="mb-1 text-[12px] text-muted" aria-label="Breadcrumb">
+          <a href="/">Projects</a> <span className="mx-1">/</span> {project.name}
+        </nav>
         <h1 className="text-[18px] font-semibold">{project.name}</h1>
         {project.description && <p className="text-[13px] text-muted">{project.description}</p>}
       </div>

@@ -3,7 +3,7 @@ import crypto from 'node:crypto';
 import { and, desc, eq, inArray, ne } from 'drizzle-orm';
 import { z } from 'zod';
 import type { Db } from '../db';
-import { netlists, NETLIST_KINDS, reviews, revisions, runs } from '../db/schema';
+import { netlists, NETLIST_KINDS, projects, reviews, revisions, runs } from '../db/schema';
 import { recordAudit } from './audit';
 import { fail, idParams, json, route } from './http';
 
@@ -131,7 +131,8 @@ export const createNetlist = route(
 
 export const getNetlist = route({ params: idParams, scope: { type: 'netlist', need: 'read' } }, async ({ db, params, scope }) => {
   const [netlist] = await netlistSummaries(db, scope.projectId!, params.id);
-  return { netlist: { ...netlist, role: scope.role } };
+  const project = await db.select({ name: projects.name }).from(projects).where(eq(projects.id, scope.projectId!)).get();
+  return { netlist: { ...netlist, projectName: project?.name ?? '', role: scope.role } };
 });
 
 export const updateNetlist = route(
