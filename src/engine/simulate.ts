@@ -187,14 +187,19 @@ export class TimingSimulator {
   /** Run every delta step at time t, then record the nets that really changed. */
   private finishTime(t: number): void {
     const wheel = this.wheel;
+    const pending = this.pending;
+    const outNets = this.c.outNets;
+    const values = this.values;
     for (let ev = wheel.take(); ev !== NONE; ev = wheel.take()) {
+      // Nothing is scheduled while a batch is applied, so the pool's arrays stay put.
+      const { dead, pin: evPin, value: evValue } = wheel;
       while (ev !== NONE) {
         const after = wheel.nextOf(ev);
-        if (!wheel.dead[ev]) {
-          const pin = wheel.pin[ev];
-          if (this.pending[pin] === ev) this.pending[pin] = NONE;
-          const net = this.c.outNets[pin];
-          if (this.values[net] !== wheel.value[ev]) this.setNet(net, wheel.value[ev]);
+        if (!dead[ev]) {
+          const pin = evPin[ev];
+          if (pending[pin] === ev) pending[pin] = NONE;
+          const net = outNets[pin];
+          if (values[net] !== evValue[ev]) this.setNet(net, evValue[ev]);
         }
         wheel.release(ev);
         ev = after;
@@ -213,17 +218,19 @@ export class TimingSimulator {
 
   /** Set a net, remember its value before this time step, and mark its readers dirty. */
   private setNet(net: number, v: number): void {
+    const values = this.values;
     if (this.stamp[net] !== this.step) {
       this.stamp[net] = this.step;
-      this.before[net] = this.values[net];
+      this.before[net] = values[net];
       this.touched[this.touchedCount++] = net;
     }
-    this.values[net] = v;
-    const c = this.c;
-    for (let f = c.fanStart[net], end = c.fanStart[net + 1]; f < end; f++) {
-      const cell = c.fanCell[f];
-      if (!this.isDirty[cell]) {
-        this.isDirty[cell] = 1;
+    values[net] = v;
+    const { fanStart, fanCell } = this.c;
+    const isDirty = this.isDirty;
+    for (let f = fanStart[net], end = fanStart[net + 1]; f < end; f++) {
+      const cell = fanCell[f];
+      if (!isDirty[cell]) {
+        isDirty[cell] = 1;
         this.dirty[this.dirtyCount++] = cell;
       }
     }
