@@ -1,7 +1,7 @@
 /**
  * The path a new team takes: sign up, sign in, create a project, invite a
  * member and find the e-mail in the outbox, upload a .v file as a revision,
- * sign out.
+ * sign out; then the invitee accepts the invitation.
  */
 import { expect, test } from './fixtures';
 
@@ -58,7 +58,9 @@ test('a new owner sets up a project end to end', async ({ page }) => {
   await page.getByRole('link', { name: 'Outbox' }).click();
   const mail = page.getByRole('button', { name: new RegExp(`${invitee}.*invites you to "Kestrel counter"`) });
   await expect(mail).toBeVisible();
-  await expect(page.getByRole('link', { name: /\/invite\// }).first()).toBeVisible();
+  const inviteLink = page.getByRole('link', { name: /\/invite\// }).first();
+  await expect(inviteLink).toBeVisible();
+  const invitePath = new URL((await inviteLink.getAttribute('href'))!).pathname;
 
   // Create a netlist and upload a small .v file as its first revision.
   await page.goto(projectUrl);
@@ -86,6 +88,23 @@ test('a new owner sets up a project end to end', async ({ page }) => {
   await expect(page).toHaveURL(/\/sign-in/);
   await page.goto(projectUrl);
   await expect(page).toHaveURL(/\/sign-in\?next=/);
+
+  // The invitee follows the link, creates an account with the invited address and joins as designer.
+  await page.goto(invitePath);
+  await expect(page).toHaveURL(/\/sign-in\?next=%2Finvite%2F/);
+  await page.getByRole('link', { name: 'Create an account' }).click();
+  await page.getByLabel('Name').fill('Dana Designer');
+  await page.getByLabel('E-mail').fill(invitee);
+  await page.getByLabel('Password', { exact: true }).fill(password);
+  await page.getByLabel('Password again').fill(password);
+  await page.getByRole('button', { name: 'Create account' }).click();
+  await expect(page.getByText('invites')).toContainText('Kestrel counter');
+  await page.getByRole('button', { name: 'Accept and open the project' }).click();
+  await expect(page.getByRole('heading', { name: 'Kestrel counter' })).toBeVisible();
+  await expect(page.getByText('your role')).toContainText('designer');
+  await expect(page.getByRole('table', { name: 'netlists' }).getByText('add2')).toBeVisible();
+  await page.getByRole('button', { name: 'Sign out' }).click();
+  await expect(page).toHaveURL(/\/sign-in/);
 });
 
 test('the theme toggle switches and is remembered', async ({ page }) => {
