@@ -168,7 +168,7 @@ export class TimingSimulator {
       return this.result();
     }
     const c = this.c;
-    this.wheel.now = 0;
+    this.wheel.rewind();
     this.beginTime();
     for (let i = 0; i < c.inputNets.length; i++) {
       const net = c.inputNets[i];
@@ -176,16 +176,16 @@ export class TimingSimulator {
       if (this.values[net] !== v) this.setNet(net, v);
     }
     this.evaluateDirty(0);
-    this.finishTime(0);
+    this.runTimeStep(0);
     for (let t = this.wheel.advance(); t !== NONE; t = this.wheel.advance()) {
       this.beginTime();
-      this.finishTime(t);
+      this.runTimeStep(t);
     }
     return this.result();
   }
 
   /** Run every delta step at time t, then record the nets that really changed. */
-  private finishTime(t: number): void {
+  private runTimeStep(t: number): void {
     const wheel = this.wheel;
     const pending = this.pending;
     const outNets = this.c.outNets;

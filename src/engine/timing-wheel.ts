@@ -120,6 +120,12 @@ export class TimingWheel {
     this.freeHead = ev;
   }
 
+  /** Restart time at 0 on an empty queue (the next vector). */
+  rewind(): void {
+    if (!this.empty) throw new Error('TimingWheel.rewind: events are still queued');
+    this.now = 0;
+  }
+
   /** Drop every queued event and restart time at 0. */
   clear(): void {
     this.head.fill(NONE);
