@@ -11,6 +11,10 @@ for (const theme of ['light', 'dark']) {
   const page = await browser.newPage({ viewport: { width: 1360, height: 860 } });
   page.on('console', (m) => m.type() === 'error' && console.log('console error:', m.text()));
   await page.addInitScript((t) => localStorage.setItem('skiplane-theme', t), theme);
+  for (const [name, path] of [['forgot', '/forgot-password'], ['reset-bad', '/reset-password?error=INVALID_TOKEN'], ['verified', '/verify-email'], ['sign-up', '/sign-up']]) {
+    await page.goto(base + path);
+    await page.screenshot({ path: `${out}/${theme}-${name}.png` });
+  }
   await page.goto(base + '/sign-in');
   await page.screenshot({ path: `${out}/${theme}-sign-in.png` });
   await page.getByLabel('E-mail').fill('owner@heronbay.test');
