@@ -57,6 +57,9 @@ export const OP_XOR = 6;
 export const OP_MUX = 7;
 const OP_BITS = 3;
 
+/** Largest delay of one pin: times are 32-bit integers, and a path sums delays. */
+export const MAX_DELAY = 1 << 24;
+
 export interface CompiledNetlist {
   netCount: number;
   cellCount: number;
@@ -145,6 +148,11 @@ export function compile(flat: FlatNetlist): CompiledNetlist {
         throw new EngineError('multiple-drivers', `net ${flat.netNames[net]} has two drivers: ${other} and ${cell.name}`, {
           where: flat.netNames[net],
         });
+      }
+      for (const d of [delay.rise, delay.fall]) {
+        if (!Number.isInteger(d) || d < 0 || d > MAX_DELAY) {
+          throw new EngineError('bad-delay', `cell ${cell.name}: delay ${d} is not an integer from 0 to ${MAX_DELAY}`, { where: cell.name });
+        }
       }
       outNets[pin] = net;
       pinCell[pin] = c;

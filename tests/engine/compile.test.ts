@@ -78,6 +78,13 @@ describe('compile: errors', () => {
     expect(e.message).not.toContain('after');
   });
 
+  it('refuses a delay that is not a small non-negative integer', () => {
+    for (const delay of [-1, 1.5, 2 ** 30]) {
+      const flat = flatOf({ inputs: ['a'], outputs: ['y'], cells: [{ kind: 'buf', name: 'b1', out: 'y', in: ['a'], delay }] });
+      expect(() => compile(flat)).toThrow(new RegExp(`cell b1: delay ${delay} is not an integer from 0 to`));
+    }
+  });
+
   it('refuses a net with two drivers', () => {
     const flat = flatOf({ inputs: ['a'], outputs: ['y'], cells: [
       { kind: 'buf', name: 'b1', out: 'y', in: ['a'] },
