@@ -3,11 +3,9 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { z } from 'zod';
+import { email, password, personName } from '../lib/rules';
 import { authClient } from './auth-client';
 import { Field, Notice } from './ui';
-
-const email = z.string().trim().min(1, 'Enter your e-mail address.').pipe(z.email('That is not an e-mail address (name@example.com).'));
-const password = z.string().min(8, 'Use at least 8 characters.').max(128, 'Use at most 128 characters.');
 
 /** Only same-site paths may be a destination after sign-in. */
 export function safeNext(next: string | null | undefined): string {
@@ -20,7 +18,7 @@ function authError(e: { message?: string; code?: string; status?: number } | nul
   return e.message || fallback;
 }
 
-const signInSchema = z.object({ email, password: z.string().min(1, 'Enter your password.') });
+const signInSchema = z.object({ email, password: z.string().min(1, 'Enter your password') });
 
 export function SignInForm({ next }: { next?: string }) {
   const [error, setError] = useState<string | null>(null);
@@ -48,8 +46,8 @@ export function SignInForm({ next }: { next?: string }) {
 }
 
 const signUpSchema = z
-  .object({ name: z.string().trim().min(1, 'Enter your name.').max(80, 'Keep it to 80 characters.'), email, password, confirm: z.string() })
-  .refine((v) => v.password === v.confirm, { message: 'The two passwords differ.', path: ['confirm'] });
+  .object({ name: personName, email, password, confirm: z.string() })
+  .refine((v) => v.password === v.confirm, { message: 'The two passwords differ', path: ['confirm'] });
 
 export function SignUpForm({ next }: { next?: string }) {
   const [error, setError] = useState<string | null>(null);
@@ -110,7 +108,7 @@ export function ForgotPasswordForm() {
 
 const resetSchema = z
   .object({ password, confirm: z.string() })
-  .refine((v) => v.password === v.confirm, { message: 'The two passwords differ.', path: ['confirm'] });
+  .refine((v) => v.password === v.confirm, { message: 'The two passwords differ', path: ['confirm'] });
 
 export function ResetPasswordForm({ token, linkError }: { token?: string; linkError?: string }) {
   const [done, setDone] = useState(false);

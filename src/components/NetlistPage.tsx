@@ -5,6 +5,7 @@ import { createColumnHelper } from '@tanstack/react-table';
 import { useEffect, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { z } from 'zod';
+import { MAX_REVISION_BYTES, netlistDescription, netlistName, runKind, runPlace, seedText } from '../lib/rules';
 import { api } from './api';
 import { DataTable } from './DataTable';
 import { bits, bytes, delay, hash, rev, utc } from './format';
@@ -12,8 +13,6 @@ import type { NetlistRow } from './ProjectOverview';
 import { withQuery } from './query';
 import { SignOff } from './SignOff';
 import { ErrorText, Field, Loading, Notice, Panel, ReviewState, RoleChip, RunStatus } from './ui';
-
-const MAX_BYTES = 2 * 1024 * 1024;
 
 interface Netlist extends NetlistRow {
   projectId: string;
@@ -83,7 +82,7 @@ function UploadForm({ netlistId, onUploaded }: { netlistId: string; onUploaded: 
     setProblem(null);
     upload.reset();
     if (f && !/\.(v|json)$/i.test(f.name)) return (setProblem(`"${f.name}" is not a .v or .json file.`), setFile(null));
-    if (f && f.size > MAX_BYTES) return (setProblem(`"${f.name}" is ${bytes(f.size)}; the limit is 2 MiB.`), setFile(null));
+    if (f && f.size > MAX_REVISION_BYTES) return (setProblem(`"${f.name}" is ${bytes(f.size)}; the limit is 2 MiB.`), setFile(null));
     setFile(f);
   };
   return (
@@ -112,14 +111,7 @@ function UploadForm({ netlistId, onUploaded }: { netlistId: string; onUploaded: 
   );
 }
 
-const runForm = z.object({
-  kind: z.enum(['equivalence', 'proof', 'slowest-vector', 'sweep']),
-  place: z.enum(['server', 'browser']),
-  seed: z
-    .string()
-    .trim()
-    .regex(/^\d{0,20}$/, 'A whole number of up to 20 digits, or empty.'),
-});
+const runForm = z.object({ kind: runKind, place: runPlace, seed: z.literal('').or(seedText) });
 
 function RunForm({ revisionId }: { revisionId: string }) {
   const qc = useQueryClient();
@@ -215,15 +207,7 @@ function RevisionDetail({ revisionId, netlistId, role, meId }: { revisionId: str
   );
 }
 
-const editForm = z.object({
-  name: z
-    .string()
-    .trim()
-    .min(1, 'Give it a name.')
-    .max(64)
-    .regex(/^[A-Za-z0-9][A-Za-z0-9_.-]*$/, 'Letters, digits, "_", "-" and "." only.'),
-  description: z.string().trim().max(2000),
-});
+const editForm = z.object({ name: netlistName, description: netlistDescription });
 
 function NetlistHeader({ n }: { n: Netlist }) {
   const qc = useQueryClient();
@@ -247,7 +231,8 @@ function NetlistHeader({ n }: { n: Netlist }) {
   return (
     <div className="space-y-2">
       <nav className="text-[12px] text-muted" aria-label="Breadcrumb">
-        <a href="/">Projects</a> <span className="mx-1">/</span> <a href={`/projects/${n.projectId}`}>{n.projectName}</a> <span className="mx-1">/</span> <span className="mono">{n.name}</span>
+        <a href="/">Projects</a> <span className="mx-1">/</span> <a href={`/projects/${n.projectId}`}>{n.projectName}</a> <span className="mx-1">/</span>{' '}
+        <span className="mono">{n.name}</span>
       </nav>
       {editing ? (
         <form onSubmit={handleSubmit((v) => save.mutate(v))} className="panel grid gap-3 p-3 md:grid-cols-[1fr_2fr_auto]" noValidate>

@@ -5,6 +5,7 @@ import { createColumnHelper } from '@tanstack/react-table';
 import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { z } from 'zod';
+import { projectDescription, projectName } from '../lib/rules';
 import { api } from './api';
 import { DataTable } from './DataTable';
 import { ago, utc } from './format';
@@ -45,10 +46,7 @@ const columns = [
   col.accessor('role', { header: 'Your role', cell: (c) => <RoleChip role={c.getValue()} /> }),
 ];
 
-const newProject = z.object({
-  name: z.string().trim().min(1, 'Give the project a name.').max(80, 'Keep it to 80 characters.'),
-  description: z.string().trim().max(2000, 'Keep it to 2000 characters.'),
-});
+const newProject = z.object({ name: projectName, description: projectDescription });
 
 function NewProjectForm({ onDone }: { onDone: () => void }) {
   const qc = useQueryClient();

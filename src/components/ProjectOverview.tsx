@@ -5,14 +5,12 @@ import { createColumnHelper } from '@tanstack/react-table';
 import { useEffect, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { z } from 'zod';
+import { email, NETLIST_KINDS, netlistDescription, netlistKind, netlistName, netlistWidth, projectDescription, projectName, role, ROLES } from '../lib/rules';
 import { api } from './api';
 import { DataTable } from './DataTable';
 import { ago, bits, delay, hash, rev, utc } from './format';
 import { withQuery } from './query';
 import { ErrorText, Field, Loading, Notice, Panel, ReviewState, RoleChip, RunStatus } from './ui';
-
-const ROLES = ['owner', 'designer', 'reviewer', 'viewer'] as const;
-const KINDS = ['ripple-carry', 'carry-skip', 'other'] as const;
 
 interface Project {
   id: string;
@@ -143,16 +141,12 @@ const auditColumns = [
   au.accessor((e) => describe(e), { id: 'what', header: 'What' }),
 ];
 
+// Form fields arrive as strings; the width is coerced, then held to the API's rule.
 const netlistForm = z.object({
-  name: z
-    .string()
-    .trim()
-    .min(1, 'Give the netlist a name.')
-    .max(64, 'Keep it to 64 characters.')
-    .regex(/^[A-Za-z0-9][A-Za-z0-9_.-]*$/, 'Letters, digits, "_", "-" and "." only.'),
-  width: z.coerce.number<string>().int('Whole bits only.').min(1, 'At least 1 bit.').max(128, 'At most 128 bits.'),
-  kind: z.enum(KINDS),
-  description: z.string().trim().max(2000),
+  name: netlistName,
+  width: z.coerce.number<string>({ error: 'Width must be a number of bits' }).pipe(netlistWidth),
+  kind: netlistKind,
+  description: netlistDescription,
 });
 
 function NewNetlistForm({ projectId, onDone }: { projectId: string; onDone: () => void }) {
@@ -178,7 +172,7 @@ function NewNetlistForm({ projectId, onDone }: { projectId: string; onDone: () =
       </Field>
       <Field label="Architecture" error={formState.errors.kind}>
         <select className="field" {...register('kind')}>
-          {KINDS.map((k) => (
+          {NETLIST_KINDS.map((k) => (
             <option key={k}>{k}</option>
           ))}
         </select>
@@ -203,10 +197,7 @@ function NewNetlistForm({ projectId, onDone }: { projectId: string; onDone: () =
   );
 }
 
-const inviteForm = z.object({
-  email: z.string().trim().min(1, 'Enter an e-mail address.').pipe(z.email('That is not an e-mail address.')),
-  role: z.enum(ROLES),
-});
+const inviteForm = z.object({ email, role });
 
 function InviteForm({ projectId }: { projectId: string }) {
   const qc = useQueryClient();
@@ -344,7 +335,7 @@ function Members({ projectId, role, meId }: { projectId: string; role: string; m
   );
 }
 
-const renameForm = z.object({ name: z.string().trim().min(1, 'Give the project a name.').max(80), description: z.string().trim().max(2000) });
+const renameForm = z.object({ name: projectName, description: projectDescription });
 
 function ProjectHeader({ project }: { project: Project }) {
   const qc = useQueryClient();

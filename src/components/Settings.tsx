@@ -3,6 +3,7 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { useEffect, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { z } from 'zod';
+import { password, personName } from '../lib/rules';
 import { authClient } from './auth-client';
 import { applyTheme, readThemeChoice, type ThemeChoice } from './theme';
 import { Field, Notice, Panel } from './ui';
@@ -13,14 +14,14 @@ interface User {
   emailVerified: boolean;
 }
 
-const nameForm = z.object({ name: z.string().trim().min(1, 'Enter your name.').max(80, 'Keep it to 80 characters.') });
+const nameForm = z.object({ name: personName });
 const passwordForm = z
   .object({
-    current: z.string().min(1, 'Enter your current password.'),
-    next: z.string().min(8, 'Use at least 8 characters.').max(128, 'Use at most 128 characters.'),
+    current: z.string().min(1, 'Enter your current password'),
+    next: password,
     confirm: z.string(),
   })
-  .refine((v) => v.next === v.confirm, { message: 'The two passwords differ.', path: ['confirm'] });
+  .refine((v) => v.next === v.confirm, { message: 'The two passwords differ', path: ['confirm'] });
 
 function NameForm({ user }: { user: User }) {
   const [status, setStatus] = useState<{ ok: boolean; text: string } | null>(null);

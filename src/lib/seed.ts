@@ -141,19 +141,17 @@ export async function seedDemo(db: Db): Promise<SeedResult> {
       const netlistId = crypto.randomUUID();
       const content = n.content();
       const revisionId = crypto.randomUUID();
-      await tx
-        .insert(netlists)
-        .values({
-          id: netlistId,
-          projectId,
-          name: n.name,
-          description: n.description,
-          width: n.width,
-          kind: n.kind,
-          createdBy: designerId,
-          createdAt: now,
-          updatedAt: now,
-        });
+      await tx.insert(netlists).values({
+        id: netlistId,
+        projectId,
+        name: n.name,
+        description: n.description,
+        width: n.width,
+        kind: n.kind,
+        createdBy: designerId,
+        createdAt: now,
+        updatedAt: now,
+      });
       await recordAudit(tx, {
         projectId,
         actorId: designerId,

@@ -7,7 +7,8 @@ import crypto from 'node:crypto';
 import { and, asc, eq, gt, isNull, sql } from 'drizzle-orm';
 import { z } from 'zod';
 import type { Db } from '../db';
-import { invitations, memberships, projects, ROLES, user, type Role } from '../db/schema';
+import { invitations, memberships, projects, user, type Role } from '../db/schema';
+import { changeRoleBody, inviteBody } from '../rules';
 import { publicOrigin } from '../env';
 import { sendMail } from '../mail';
 import { can, roleIn } from './access';
@@ -16,11 +17,6 @@ import { ApiError, fail, idParam, idParams, json, route } from './http';
 
 export const INVITATION_DAYS = 7;
 
-const role = z.enum(ROLES, { error: `role must be one of ${ROLES.join(', ')}` });
-const email = z.string().trim().toLowerCase().pipe(z.email('give a valid e-mail address, like name@example.com'));
-
-export const inviteBody = z.object({ email, role }).strict();
-export const changeRoleBody = z.object({ role }).strict();
 const memberParams = z.object({ id: idParam, userId: idParam });
 const invitationParams = z.object({ id: idParam, invitationId: idParam });
 const tokenParams = z.object({ token: z.string().trim().min(20, 'the invitation link is incomplete').max(200) });

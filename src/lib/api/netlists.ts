@@ -1,34 +1,11 @@
 /** Netlists: one adder design each, with immutable revisions r1, r2, … */
 import crypto from 'node:crypto';
 import { and, desc, eq, inArray, ne } from 'drizzle-orm';
-import { z } from 'zod';
 import type { Db } from '../db';
-import { netlists, NETLIST_KINDS, projects, reviews, revisions, runs } from '../db/schema';
+import { netlists, projects, reviews, revisions, runs } from '../db/schema';
+import { createNetlistBody, updateNetlistBody } from '../rules';
 import { recordAudit } from './audit';
 import { fail, idParams, json, route } from './http';
-
-/** The engine simulates adders of 1 to 128 bits (SPEC: generator limits). */
-export const MAX_NETLIST_WIDTH = 128;
-
-export const netlistName = z
-  .string()
-  .trim()
-  .min(1, 'give the netlist a name')
-  .max(64, 'keep the name to 64 characters or fewer')
-  .regex(/^[A-Za-z0-9][A-Za-z0-9_.-]*$/, 'use letters, digits, "_", "-" and "." only, starting with a letter or digit');
-const description = z.string().trim().max(2000, 'keep the description to 2000 characters or fewer');
-const width = z
-  .number({ error: 'width must be a number of bits' })
-  .int('width must be a whole number of bits')
-  .min(1, 'width must be at least 1 bit')
-  .max(MAX_NETLIST_WIDTH, `width must be at most ${MAX_NETLIST_WIDTH} bits`);
-const kind = z.enum(NETLIST_KINDS, { error: `kind must be one of ${NETLIST_KINDS.join(', ')}` });
-
-export const createNetlistBody = z.object({ name: netlistName, description: description.default(''), width, kind }).strict();
-export const updateNetlistBody = z
-  .object({ name: netlistName.optional(), description: description.optional(), width: width.optional(), kind: kind.optional() })
-  .strict()
-  .refine((b) => Object.values(b).some((v) => v !== undefined), 'send at least one field to change');
 
 async function assertNameFree(db: Db, projectId: string, name: string, exceptId?: string) {
   const clash = await db

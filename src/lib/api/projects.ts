@@ -1,19 +1,10 @@
 /** Projects: a team's space. Anyone signed in may create one and becomes its owner. */
 import crypto from 'node:crypto';
 import { and, count, desc, eq, max, sql } from 'drizzle-orm';
-import { z } from 'zod';
 import { auditEvents, memberships, netlists, projects } from '../db/schema';
+import { createProjectBody, updateProjectBody } from '../rules';
 import { recordAudit } from './audit';
 import { idParams, json, route } from './http';
-
-export const projectName = z.string().trim().min(1, 'give the project a name').max(80, 'keep the name to 80 characters or fewer');
-export const projectDescription = z.string().trim().max(2000, 'keep the description to 2000 characters or fewer');
-
-export const createProjectBody = z.object({ name: projectName, description: projectDescription.default('') }).strict();
-export const updateProjectBody = z
-  .object({ name: projectName.optional(), description: projectDescription.optional() })
-  .strict()
-  .refine((b) => b.name !== undefined || b.description !== undefined, 'send a new name or description');
 
 export const listProjects = route({}, async ({ db, user }) => {
   const netlistCounts = db

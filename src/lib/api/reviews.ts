@@ -9,20 +9,12 @@ import { alias } from 'drizzle-orm/sqlite-core';
 import { z } from 'zod';
 import type { Db } from '../db';
 import { reviews, revisions, user } from '../db/schema';
+import { decideReviewBody, reviewComment } from '../rules';
 import { can, roleIn } from './access';
 import { recordAudit } from './audit';
 import { fail, idParams, json, route } from './http';
 
-const comment = z.string().trim().max(4000, 'keep the comment to 4000 characters or fewer');
-
-export const requestReviewBody = z.object({ reviewerId: z.string().trim().min(1).max(100).optional(), comment: comment.default('') }).strict();
-export const decideReviewBody = z
-  .object({
-    state: z.enum(['approved', 'rejected', 'withdrawn'], { error: 'state must be approved, rejected or withdrawn' }),
-    comment: comment.default(''),
-  })
-  .strict()
-  .refine((b) => b.state !== 'rejected' || b.comment.length > 0, { message: 'say why when you reject', path: ['comment'] });
+export const requestReviewBody = z.object({ reviewerId: z.string().trim().min(1).max(100).optional(), comment: reviewComment.default('') }).strict();
 
 const requester = alias(user, 'requester');
 const reviewer = alias(user, 'reviewer');
@@ -77,17 +69,15 @@ export const requestReview = route(
     }
     const id = crypto.randomUUID();
     await db.transaction(async (tx) => {
-      await tx
-        .insert(reviews)
-        .values({
-          id,
-          revisionId: params.id,
-          requesterId: me.id,
-          reviewerId: body.reviewerId ?? null,
-          state: 'requested',
-          comment: body.comment,
-          createdAt: new Date(),
-        });
+      await tx.insert(reviews).values({
+        id,
+        revisionId: params.id,
+        requesterId: me.id,
+        reviewerId: body.reviewerId ?? null,
+        state: 'requested',
+        comment: body.comment,
+        createdAt: new Date(),
+      });
       await recordAudit(tx, {
         projectId: scope.projectId,
         actorId: me.id,

@@ -8,17 +8,15 @@
 import crypto from 'node:crypto';
 import { desc, eq } from 'drizzle-orm';
 import { z } from 'zod';
-import { revisions, REVISION_FORMATS, user, type RevisionFormat } from '../db/schema';
+import { revisions, user } from '../db/schema';
+import { MAX_REVISION_BYTES, REVISION_FORMATS, REVISION_SUFFIXES, revisionMessage as message, type RevisionFormat } from '../rules';
 import { recordAudit } from './audit';
 import { fail, idParams, json, methodNotAllowed, parseWith, readBodyLimited, readJson, route } from './http';
 
-export const MAX_REVISION_BYTES = 2 * 1024 * 1024;
 /** Room for multipart boundaries and the other form fields around the file. */
 const MULTIPART_OVERHEAD = 64 * 1024;
 /** JSON escaping (\n, \", \uXXXX) can grow text up to 6×; cap the envelope, then the decoded content exactly. */
 const JSON_ENVELOPE_LIMIT = 6 * MAX_REVISION_BYTES + MULTIPART_OVERHEAD;
-
-const SUFFIX_FORMAT: Record<string, RevisionFormat> = { '.v': 'verilog', '.json': 'json' };
 
 const filename = z
   .string()
@@ -26,7 +24,6 @@ const filename = z
   .min(1)
   .max(200, 'keep the file name to 200 characters or fewer')
   .refine((n) => !/[\\/\0]/.test(n), 'give a plain file name without folders');
-const message = z.string().trim().max(500, 'keep the message to 500 characters or fewer');
 
 export const createRevisionJsonBody = z
   .object({
@@ -40,7 +37,7 @@ export const createRevisionJsonBody = z
 function formatFromName(name: string): RevisionFormat {
   const dot = name.lastIndexOf('.');
   const suffix = dot < 0 ? '' : name.slice(dot).toLowerCase();
-  const f = SUFFIX_FORMAT[suffix];
+  const f = REVISION_SUFFIXES[suffix];
   if (!f) throw fail.invalid(`The file "${name}" has an unsupported suffix; upload a Verilog netlist (.v) or a JSON netlist (.json).`);
   return f;
 }
@@ -103,6 +100,8 @@ async function readIncoming(request: Request): Promise<Incoming> {
   const content = checkRevisionText(new TextEncoder().encode(body.content), format, 'content');
   return { content, format, filename: body.filename ?? null, message: body.message };
 }
+
+export { MAX_REVISION_BYTES };
 
 export const sha256 = (text: string) => crypto.createHash('sha256').update(text, 'utf8').digest('hex');
 

@@ -7,26 +7,20 @@ import crypto from 'node:crypto';
 import { desc, eq } from 'drizzle-orm';
 import { z } from 'zod';
 import { ENGINE_VERSION } from '../../engine/model';
-import { runs, RUN_KINDS, RUN_PLACES, user } from '../db/schema';
+import { runs, user } from '../db/schema';
+import { runKind, runPlace, seedText } from '../rules';
 import { recordAudit } from './audit';
 import { idParams, json, route } from './http';
 
 export const createRunBody = z
   .object({
-    kind: z.enum(RUN_KINDS, { error: `kind must be one of ${RUN_KINDS.join(', ')}` }),
+    kind: runKind,
     parameters: z.record(z.string(), z.unknown()).default({}),
-    // Seeds are decimal strings so 64-bit values survive JSON.
     seed: z
-      .union([
-        z
-          .string()
-          .trim()
-          .regex(/^\d{1,20}$/, 'seed must be a whole number of up to 20 digits'),
-        z.number().int().nonnegative().max(Number.MAX_SAFE_INTEGER),
-      ])
+      .union([seedText, z.number().int().nonnegative().max(Number.MAX_SAFE_INTEGER)])
       .transform(String)
       .optional(),
-    place: z.enum(RUN_PLACES, { error: 'place must be "browser" or "server"' }).default('server'),
+    place: runPlace.default('server'),
   })
   .strict()
   .refine((b) => JSON.stringify(b.parameters).length <= 16 * 1024, { message: 'parameters must be at most 16 KiB of JSON', path: ['parameters'] });

@@ -5,6 +5,7 @@
  */
 import { sql } from 'drizzle-orm';
 import { index, integer, real, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
+import { NETLIST_KINDS, REVIEW_STATES, REVISION_FORMATS, ROLES, RUN_KINDS, RUN_PLACES, RUN_STATUSES } from '../rules';
 
 const now = sql`(cast(unixepoch('subsecond') * 1000 as integer))`;
 const ts = (name: string) => integer(name, { mode: 'timestamp_ms' });
@@ -75,20 +76,9 @@ export const verification = sqliteTable(
 
 // ---- Skiplane ------------------------------------------------------------
 
-export const ROLES = ['owner', 'designer', 'reviewer', 'viewer'] as const;
-export type Role = (typeof ROLES)[number];
-
-export const NETLIST_KINDS = ['ripple-carry', 'carry-skip', 'other'] as const;
-export type NetlistKind = (typeof NETLIST_KINDS)[number];
-
-export const REVISION_FORMATS = ['verilog', 'json'] as const;
-export type RevisionFormat = (typeof REVISION_FORMATS)[number];
-
-export const RUN_KINDS = ['equivalence', 'proof', 'slowest-vector', 'sweep'] as const;
-export const RUN_STATUSES = ['queued', 'running', 'passed', 'failed', 'error', 'cancelled'] as const;
-export const RUN_PLACES = ['browser', 'server'] as const;
-
-export const REVIEW_STATES = ['requested', 'approved', 'rejected', 'withdrawn'] as const;
+// The value sets live in ../rules so browser forms can share them.
+export { NETLIST_KINDS, REVIEW_STATES, REVISION_FORMATS, ROLES, RUN_KINDS, RUN_PLACES, RUN_STATUSES } from '../rules';
+export type { NetlistKind, RevisionFormat, Role } from '../rules';
 
 export const projects = sqliteTable('projects', {
   id: text('id').primaryKey(),
