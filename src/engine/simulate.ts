@@ -238,27 +238,25 @@ export class TimingSimulator {
 
   /** Evaluate every dirty cell at time t and schedule its output changes (SPEC §3). */
   private evaluateDirty(t: number): void {
+    if (this.transport) this.evaluateTransport(t);
+    else this.evaluateInertial(t);
+    this.dirtyCount = 0;
+  }
+
+  /** Inertial: keep a pending change to v, cancel one to the other value, schedule v if it is new. */
+  private evaluateInertial(t: number): void {
     const c = this.c;
     const { outStart, outNets, rise, fall } = c;
     const wheel = this.wheel;
     const values = this.values;
     const dirty = this.dirty;
     const isDirty = this.isDirty;
-    const transport = this.transport;
     const pending = this.pending;
-    const scheduled = this.scheduled;
     for (let i = 0, n = this.dirtyCount; i < n; i++) {
       const cell = dirty[i];
       isDirty[cell] = 0;
       for (let pin = outStart[cell], end = outStart[cell + 1]; pin < end; pin++) {
         const v = evalPin(c, pin, values);
-        if (transport) {
-          if (v !== scheduled[pin]) {
-            scheduled[pin] = v;
-            wheel.schedule(t + (v ? rise[pin] : fall[pin]), pin, v);
-          }
-          continue;
-        }
         const pe = pending[pin];
         if (pe !== NONE) {
           if (wheel.value[pe] === v) continue; // a pending change to v stays
@@ -268,7 +266,28 @@ export class TimingSimulator {
         if (v !== values[outNets[pin]]) pending[pin] = wheel.schedule(t + (v ? rise[pin] : fall[pin]), pin, v);
       }
     }
-    this.dirtyCount = 0;
+  }
+
+  /** Transport: schedule every new value; cancel nothing. */
+  private evaluateTransport(t: number): void {
+    const c = this.c;
+    const { outStart, rise } = c;
+    const wheel = this.wheel;
+    const values = this.values;
+    const dirty = this.dirty;
+    const isDirty = this.isDirty;
+    const scheduled = this.scheduled;
+    for (let i = 0, n = this.dirtyCount; i < n; i++) {
+      const cell = dirty[i];
+      isDirty[cell] = 0;
+      for (let pin = outStart[cell], end = outStart[cell + 1]; pin < end; pin++) {
+        const v = evalPin(c, pin, values);
+        if (v !== scheduled[pin]) {
+          scheduled[pin] = v;
+          wheel.schedule(t + rise[pin], pin, v); // rise = fall in transport mode
+        }
+      }
+    }
   }
 
   /** Compare touched nets with their value before t: a difference is a change at t. */
