@@ -1,6 +1,6 @@
 /** The audit trail: one row per change, written beside the change itself. */
 import crypto from 'node:crypto';
-import { desc, eq } from 'drizzle-orm';
+import { desc, eq, sql } from 'drizzle-orm';
 import { z } from 'zod';
 import type { Db } from '../db';
 import { auditEvents, user } from '../db/schema';
@@ -40,7 +40,8 @@ export const listAudit = route({ params: idParams, scope: { type: 'project', nee
     .from(auditEvents)
     .leftJoin(user, eq(user.id, auditEvents.actorId))
     .where(eq(auditEvents.projectId, params.id))
-    .orderBy(desc(auditEvents.at), desc(auditEvents.id))
+    // rowid keeps insertion order among events of the same millisecond.
+    .orderBy(desc(auditEvents.at), desc(sql`rowid`))
     .limit(limit);
   return { events: rows };
 });

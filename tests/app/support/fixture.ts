@@ -19,19 +19,17 @@ export async function makeProject(members: { userId: string; role: Role }[], req
   await db.insert(projects).values({ id: projectId, name: 'Fixture ' + projectId.slice(0, 6), createdAt: now, updatedAt: now });
   for (const m of members) await db.insert(memberships).values({ projectId, userId: m.userId, role: m.role, createdAt: now });
   await db.insert(netlists).values({ id: netlistId, projectId, name: 'add1', width: 1, kind: 'ripple-carry', createdAt: now, updatedAt: now });
-  await db
-    .insert(revisions)
-    .values({
-      id: revisionId,
-      netlistId,
-      number: 1,
-      format: 'verilog',
-      filename: 'add1.v',
-      content,
-      contentHash: sha256(content),
-      sizeBytes: content.length,
-      createdAt: now,
-    });
+  await db.insert(revisions).values({
+    id: revisionId,
+    netlistId,
+    number: 1,
+    format: 'verilog',
+    filename: 'add1.v',
+    content,
+    contentHash: sha256(content),
+    sizeBytes: content.length,
+    createdAt: now,
+  });
   await db.insert(runs).values({ id: runId, revisionId, kind: 'equivalence', parameters: {}, engineVersion: 'test', place: 'server', createdAt: now });
   await db.insert(invitations).values({
     id: invitationId,
