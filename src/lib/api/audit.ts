@@ -41,7 +41,7 @@ export const listAudit = route({ params: idParams, scope: { type: 'project', nee
     .leftJoin(user, eq(user.id, auditEvents.actorId))
     .where(eq(auditEvents.projectId, params.id))
     // rowid keeps insertion order among events of the same millisecond.
-    .orderBy(desc(auditEvents.at), desc(sql`rowid`))
+    .orderBy(desc(auditEvents.at), desc(sql`"audit_events"."rowid"`))
     .limit(limit);
   return { events: rows };
 });
