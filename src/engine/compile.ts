@@ -375,53 +375,53 @@ function loopError(
 
 /**
  * Evaluate one output pin from the present net values. The one evaluation
- * routine of the engine: the simulator, the zero-delay settle and the
- * property tests' oracle-free paths all go through it.
+ * routine of the engine (simulator and zero-delay settle). Kept small so
+ * the JIT can inline it into the simulator's loop: the adder cells are
+ * here, gates over a list of inputs and expressions one call further.
  */
 export function evalPin(c: CompiledNetlist, pin: number, values: Uint8Array): number {
   const cell = c.pinCell[pin];
   const s = c.inStart[cell];
-  const e = c.inStart[cell + 1];
   const inNets = c.inNets;
   switch (c.kind[cell]) {
-    case K_BUF:
-      return values[inNets[s]];
-    case K_NOT:
-      return values[inNets[s]] ^ 1;
-    case K_AND:
-    case K_NAND: {
-      let r = 1;
-      for (let i = s; i < e; i++) r &= values[inNets[i]];
-      return c.kind[cell] === K_AND ? r : r ^ 1;
-    }
-    case K_OR:
-    case K_NOR: {
-      let r = 0;
-      for (let i = s; i < e; i++) r |= values[inNets[i]];
-      return c.kind[cell] === K_OR ? r : r ^ 1;
-    }
-    case K_XOR:
-    case K_XNOR: {
-      let r = 0;
-      for (let i = s; i < e; i++) r ^= values[inNets[i]];
-      return c.kind[cell] === K_XOR ? r : r ^ 1;
-    }
-    case K_MUX2:
-      return values[inNets[s + 2]] ? values[inNets[s + 1]] : values[inNets[s]];
-    case K_HA: {
-      const a = values[inNets[s]];
-      const b = values[inNets[s + 1]];
-      return pin === c.outStart[cell] ? a ^ b : a & b;
-    }
     case K_FA: {
       const a = values[inNets[s]];
       const b = values[inNets[s + 1]];
       const ci = values[inNets[s + 2]];
       return pin === c.outStart[cell] ? a ^ b ^ ci : (a & b) | (ci & (a ^ b));
     }
-    default:
+    case K_HA: {
+      const a = values[inNets[s]];
+      const b = values[inNets[s + 1]];
+      return pin === c.outStart[cell] ? a ^ b : a & b;
+    }
+    case K_MUX2:
+      return values[inNets[s + 2]] ? values[inNets[s + 1]] : values[inNets[s]];
+    case K_BUF:
+      return values[inNets[s]];
+    case K_NOT:
+      return values[inNets[s]] ^ 1;
+    case K_EXPR:
       return runExpr(c, cell, s, values);
+    default:
+      return evalGate(c.kind[cell], s, c.inStart[cell + 1], inNets, values);
   }
+}
+
+/** and/or/xor and their inversions over inputs s .. e. */
+function evalGate(kind: number, s: number, e: number, inNets: Int32Array, values: Uint8Array): number {
+  let r: number;
+  if (kind === K_AND || kind === K_NAND) {
+    r = 1;
+    for (let i = s; i < e; i++) r &= values[inNets[i]];
+  } else if (kind === K_OR || kind === K_NOR) {
+    r = 0;
+    for (let i = s; i < e; i++) r |= values[inNets[i]];
+  } else {
+    r = 0;
+    for (let i = s; i < e; i++) r ^= values[inNets[i]];
+  }
+  return kind === K_NAND || kind === K_NOR || kind === K_XNOR ? r ^ 1 : r;
 }
 
 function runExpr(c: CompiledNetlist, cell: number, s: number, values: Uint8Array): number {
