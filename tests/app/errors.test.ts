@@ -90,6 +90,13 @@ describe('unknown ids answer 404', () => {
     expect(res.status).toBe(404);
   });
 
+  it('a method a path does not take answers 405 in JSON with Allow', async () => {
+    const res = await call('PUT', '/api/projects', { cookie: me.cookie, json: {} });
+    expect(res.status).toBe(405);
+    expect(res.headers.get('allow')).toBe('GET, POST');
+    expect(((await res.json()) as { error: { code: string } }).error.code).toBe('method_not_allowed');
+  });
+
   it('an unknown API path', async () => {
     const res = await call('GET', '/api/nowhere', { cookie: me.cookie });
     expect(res.status).toBe(404);

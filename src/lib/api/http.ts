@@ -152,6 +152,11 @@ export function route<P extends z.ZodType = z.ZodObject<{}>, B extends z.ZodType
   };
 }
 
+/** Answers every method a route file does not export (Astro's `ALL`), in JSON like other errors. */
+export function allow(...methods: string[]) {
+  return methodNotAllowed(methods, `This path accepts ${methods.join(', ')} only.`);
+}
+
 /** For methods a resource does not allow (revisions are immutable). */
 export function methodNotAllowed(allow: string[], message: string) {
   return async (): Promise<Response> => errorResponse(new ApiError(405, 'method_not_allowed', message), { allow: allow.join(', ') });

@@ -1,3 +1,4 @@
+import { allow } from '../../../../lib/api/http';
 import { getRevision, revisionIsImmutable } from '../../../../lib/api/revisions';
 
 export const GET = getRevision;
@@ -5,3 +6,4 @@ export const GET = getRevision;
 export const PUT = revisionIsImmutable;
 export const PATCH = revisionIsImmutable;
 export const DELETE = revisionIsImmutable;
+export const ALL = allow('GET');
