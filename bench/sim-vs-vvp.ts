@@ -1,0 +1,103 @@
+/**
+ * Issue 3 benchmark: 200,000 seeded random vectors through a 32-bit
+ * carry-skip adder (8 blocks of 4 bits), inertial delays, timed as a whole
+ * `skiplane sim … --json` process (start-up and output included), beside
+ * Icarus Verilog's `vvp` running the same netlist (written by our Verilog
+ * writer) and the same vectors (iverilog's compile time excluded). The
+ * per-vector settle times of the two must agree on every vector.
+ */
+import { execFileSync, spawnSync } from 'node:child_process';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { AdderHarness } from '../src/engine/adder';
+import { generateAdder } from '../src/engine/generate';
+import { writeDesignJson } from '../src/engine/json';
+import { prepareAdder } from '../src/engine/pipeline';
+import { SeededRandom, randomVector, type Vector } from '../src/engine/random';
+import { topologicalDelay } from '../src/engine/topo';
+import { writeVerilog } from '../src/engine/verilog/write';
+import { compileIverilog, readSteps, writeAdderTestbench } from './iverilog-adder';
+
+const VECTORS = 200_000;
+const SEED = 1;
+
+interface Timed {
+  seconds: number;
+  peakKiB: number;
+}
+
+/** Runs a command under GNU time; returns wall seconds and peak resident memory (the command and its children). */
+function timed(cmd: string, args: string[], cwd: string, stdoutFile?: string): Timed {
+  const stats = join(cwd, `time-${Date.now()}.txt`);
+  const shell = `/usr/bin/time -f '%e %M' -o ${stats} ${[cmd, ...args].map((a) => `'${a}'`).join(' ')}${stdoutFile ? ` > '${stdoutFile}'` : ' > /dev/null'}`;
+  const r = spawnSync('bash', ['-c', shell], { cwd, stdio: ['ignore', 'inherit', 'inherit'] });
+  if (r.status !== 0) throw new Error(`${cmd} ${args.join(' ')} exited with ${r.status}`);
+  const [seconds, kib] = readFileSync(stats, 'utf8').trim().split('\n').pop()!.split(' ').map(Number);
+  return { seconds, peakKiB: kib };
+}
+
+export function benchSimVsVvp() {
+  const dir = mkdtempSync(join(tmpdir(), 'skiplane-bench-'));
+  const design = generateAdder({ arch: 'skip', width: 32, block: 4 });
+  const adder = prepareAdder(design).adder!;
+  const { ports } = adder;
+  const topo = topologicalDelay(adder.compiled, [...ports.sum, ports.cout!]).delay;
+  const period = (Math.floor(topo / 10) + 1) * 10;
+
+  const rng = new SeededRandom(SEED);
+  const vectors: Vector[] = Array.from({ length: VECTORS }, () => randomVector(rng, 32, true));
+  writeFileSync(join(dir, 'dut.json'), writeDesignJson(design));
+  writeFileSync(join(dir, 'dut.v'), writeVerilog(design));
+  writeFileSync(join(dir, 'vectors.txt'), vectors.map((v) => `0x${v.a.toString(16)} 0x${v.b.toString(16)} ${v.cin}`).join('\n') + '\n');
+
+  // Icarus Verilog: compile once (not timed), then time vvp alone.
+  const tb = writeAdderTestbench(dir, { top: design.top, width: 32, a: 'a', b: 'b', cin: 'cin', sum: 's', cout: 'cout' }, vectors, period);
+  const image = compileIverilog(dir, [join(dir, 'dut.v'), tb]);
+  const vvpVersion = execFileSync('vvp', ['-V'], { encoding: 'utf8' }).split('\n')[0];
+  const vvp = timed('vvp', ['-n', image], dir);
+  const vvpSteps = readSteps(dir);
+
+  // Skiplane: the whole command-line process.
+  const root = join(import.meta.dirname, '..');
+  const ours = timed('npm', ['run', '--silent', '--prefix', root, 'skiplane', '--', 'sim', join(dir, 'dut.json'), '--vectors', join(dir, 'vectors.txt'), '--json'], dir, join(dir, 'ours.json'));
+  const steps = (JSON.parse(readFileSync(join(dir, 'ours.json'), 'utf8')) as { steps: { sum: string; settle: number }[] }).steps;
+
+  // Agreement on every vector (the first only sets the settled state).
+  if (steps.length !== VECTORS || vvpSteps.length !== VECTORS) throw new Error(`step counts differ: skiplane ${steps.length}, vvp ${vvpSteps.length}`);
+  let disagreements = 0;
+  for (let i = 1; i < VECTORS; i++) {
+    if (steps[i].settle !== vvpSteps[i].settle || BigInt(steps[i].sum) !== vvpSteps[i].sum) {
+      if (disagreements++ < 5) console.error(`vector ${i}: skiplane settle ${steps[i].settle} sum ${steps[i].sum}, vvp settle ${vvpSteps[i].settle} sum 0x${vvpSteps[i].sum.toString(16)}`);
+    }
+  }
+
+  // Net changes (events) of the same run, counted in-process; also the engine's own speed without start-up.
+  const harness = new AdderHarness(adder.compiled, ports, { mode: 'inertial', recordChanges: true });
+  let netChanges = 0;
+  for (const v of vectors) netChanges += harness.apply(v).changes?.length ?? 0;
+  const plain = new AdderHarness(adder.compiled, ports, { mode: 'inertial' });
+  const t0 = performance.now();
+  for (const v of vectors) plain.apply(v);
+  const engineSeconds = (performance.now() - t0) / 1000;
+
+  const result = {
+    design: `${design.top}: 32-bit carry-skip, 8 blocks of 4, default delay table, ${adder.compiled.cellCount} cells, topological delay ${topo} ps`,
+    vectors: VECTORS,
+    seed: SEED,
+    netChanges,
+    skiplaneProcess: { seconds: ours.seconds, vectorsPerSecond: VECTORS / ours.seconds, netChangesPerSecond: netChanges / ours.seconds, peakMiB: ours.peakKiB / 1024 },
+    skiplaneEngineOnly: { seconds: engineSeconds, vectorsPerSecond: VECTORS / engineSeconds, netChangesPerSecond: netChanges / engineSeconds },
+    vvp: { version: vvpVersion, seconds: vvp.seconds, vectorsPerSecond: VECTORS / vvp.seconds, netChangesPerSecond: netChanges / vvp.seconds, peakMiB: vvp.peakKiB / 1024 },
+    ratio: vvp.seconds / ours.seconds,
+    disagreements,
+  };
+  const f = (n: number) => Math.round(n).toLocaleString('en-US');
+  console.log(`sim vs vvp — ${result.design}; ${f(VECTORS)} vectors, ${f(netChanges)} net changes`);
+  console.log(`  skiplane sim (process): ${ours.seconds.toFixed(2)} s, ${f(result.skiplaneProcess.vectorsPerSecond)} vectors/s, ${f(result.skiplaneProcess.netChangesPerSecond)} net changes/s, peak ${result.skiplaneProcess.peakMiB.toFixed(0)} MiB`);
+  console.log(`  skiplane engine only:   ${engineSeconds.toFixed(2)} s, ${f(result.skiplaneEngineOnly.vectorsPerSecond)} vectors/s, ${f(result.skiplaneEngineOnly.netChangesPerSecond)} net changes/s`);
+  console.log(`  vvp (${vvpVersion}): ${vvp.seconds.toFixed(2)} s, ${f(result.vvp.vectorsPerSecond)} vectors/s, ${f(result.vvp.netChangesPerSecond)} net changes/s, peak ${result.vvp.peakMiB.toFixed(0)} MiB`);
+  console.log(`  ratio (vvp time / skiplane time): ${result.ratio.toFixed(1)}x  (target ≥ 10x, aim 30x); settle-time disagreements: ${disagreements}`);
+  if (disagreements > 0) throw new Error(`${disagreements} vectors disagree between skiplane and vvp`);
+  return result;
+}

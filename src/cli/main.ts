@@ -1,0 +1,221 @@
+/**
+ * The `skiplane` command line (SPEC §7). One engine, one path per command:
+ * read the design, prepare it (lint, flatten, compile, ports), run, and
+ * print either text for people or exactly one JSON document (--json).
+ * Exit 0: success; 1: the design fails; 2: bad input or options, one line
+ * on standard error and never a stack trace.
+ */
+import { readFileSync, writeFileSync } from 'node:fs';
+import { resolve } from 'node:path';
+import { EngineError } from '../engine/errors';
+import { parseDelayTable } from '../engine/delay-table';
+import { generateAdder } from '../engine/generate';
+import { parseDesign, writeDesignJson } from '../engine/json';
+import type { LintResult } from '../engine/lint';
+import type { DelayTable, Design, PortMap } from '../engine/model';
+import { prepareAdder, type PreparedAdder } from '../engine/pipeline';
+import { parsePortMap } from '../engine/ports';
+import { runVectors } from '../engine/adder';
+import { searchSlowest, type TimingReport } from '../engine/slowest';
+import { parseVectors } from '../engine/vectors';
+import { writeVerilog } from '../engine/verilog/write';
+import { simulateAdderVcd } from '../engine/vcd';
+import { parseCli, UsageError, USAGE, type CliArgs } from './args';
+import { formatLint, formatSim, formatTiming, hex, pathJson } from './format';
+
+/** A failed check of the design (exit 1), with what to print. */
+class DesignFailure {
+  constructor(readonly json: unknown, readonly text: string) {}
+}
+
+interface Output {
+  json: unknown;
+  text: string;
+}
+
+/** `npm run` starts scripts in the package folder; paths on the command line are relative to where the user typed them. */
+const launchedByNpm = process.env.npm_lifecycle_event === 'skiplane' && process.env.INIT_CWD;
+const userPath = (path: string): string => resolve(launchedByNpm ? process.env.INIT_CWD! : process.cwd(), path);
+
+function readText(path: string, what: string): string {
+  try {
+    return readFileSync(userPath(path), 'utf8');
+  } catch (e) {
+    const code = (e as NodeJS.ErrnoException).code;
+    const why = code === 'ENOENT' ? 'no such file' : code === 'EISDIR' ? 'it is a folder' : code === 'EACCES' ? 'permission denied' : String((e as Error).message);
+    throw new UsageError(`cannot read ${what} '${path}': ${why}`);
+  }
+}
+
+function writeText(path: string, text: string): void {
+  try {
+    writeFileSync(userPath(path), text);
+  } catch (e) {
+    throw new UsageError(`cannot write '${path}': ${(e as Error).message}`);
+  }
+}
+
+function loadDesign(args: CliArgs): Design {
+  const file = args.file!;
+  const design = parseDesign(readText(file, 'netlist'), file);
+  if (args.top) {
+    if (!design.modules.some((m) => m.name === args.top)) {
+      throw new UsageError(`--top ${args.top}: no module of that name in ${file}; it has ${design.modules.map((m) => m.name).join(', ')}`);
+    }
+    design.top = args.top;
+  }
+  return design;
+}
+
+function options(args: CliArgs): { map?: PortMap; delayTable?: DelayTable } {
+  return {
+    map: args.map !== undefined ? parsePortMap(args.map) : undefined,
+    delayTable: args.delays !== undefined ? parseDelayTable(readText(args.delays, 'delay table'), args.delays) : undefined,
+  };
+}
+
+const lintJson = (r: LintResult) => ({ errors: r.errors, warnings: r.warnings });
+
+/** Prepare an adder for simulation, or fail the design with its lint report. */
+function prepare(args: CliArgs): { adder: PreparedAdder; lint: LintResult } {
+  const prepared = prepareAdder(loadDesign(args), options(args));
+  if (!prepared.adder) throw new DesignFailure(lintJson(prepared.lint), formatLint(prepared.lint));
+  return { adder: prepared.adder, lint: prepared.lint };
+}
+
+function runLint(args: CliArgs): Output {
+  const opts = options(args);
+  const result = prepareAdder(loadDesign(args), opts).lint;
+  const out = { json: lintJson(result), text: formatLint(result) };
+  if (result.errors.length > 0) throw new DesignFailure(out.json, out.text);
+  return out;
+}
+
+function runSim(args: CliArgs): Output {
+  const { adder } = prepare(args);
+  const vectors = parseVectors(readText(args.vectors!, 'vectors'), args.vectors!, {
+    width: adder.ports.width,
+    hasCin: adder.ports.cin !== null,
+  });
+  const mode = args.transport ? 'transport' : 'inertial';
+  let steps;
+  if (args.vcd) {
+    const traced = simulateAdderVcd(adder.flat, adder.compiled, adder.ports, vectors, { mode });
+    writeText(args.vcd, traced.vcd);
+    steps = traced.steps;
+  } else {
+    steps = runVectors(adder.compiled, adder.ports, vectors, { mode });
+  }
+  return {
+    json: {
+      steps: steps.map((s) => ({
+        a: hex(s.a),
+        b: hex(s.b),
+        cin: hex(s.cin),
+        sum: hex(s.sum),
+        settle: s.settle,
+        lastEvent: s.lastEvent,
+        outputChanges: s.outputChanges,
+      })),
+    },
+    text: formatSim(steps, adder.ports.width),
+  };
+}
+
+function runTiming(args: CliArgs): Output {
+  const { adder } = prepare(args);
+  const search = args.pairs?.mode === 'exhaustive' ? { mode: 'exhaustive' as const } : { mode: 'random' as const, count: args.pairs?.count ?? 10000, seed: args.seed ?? 1n };
+  let report: TimingReport;
+  try {
+    report = searchSlowest(adder, search, args.transport ? 'transport' : 'inertial');
+  } catch (e) {
+    // Too many pairs is a refused request (exit 2), not a failing design.
+    if (e instanceof EngineError && e.code === 'too-many-pairs') throw new UsageError(e.message);
+    throw e;
+  }
+  return {
+    json: {
+      topological: { delay: report.topological.delay, path: pathJson(report.topological.path) },
+      worst: report.worst && {
+        delay: report.worst.delay,
+        from: { a: hex(report.worst.from.a), b: hex(report.worst.from.b), cin: hex(report.worst.from.cin) },
+        to: { a: hex(report.worst.to.a), b: hex(report.worst.to.b), cin: hex(report.worst.to.cin) },
+        path: pathJson(report.worst.path),
+      },
+      pairs: report.pairs,
+      falsePath: report.falsePath,
+      ...(search.mode === 'random' ? { seed: search.seed.toString() } : {}),
+    },
+    text: formatTiming(report, search),
+  };
+}
+
+/** Writes a design in the format its file name asks for. */
+function writeDesign(design: Design, out: string, delayTable?: DelayTable): string {
+  const lower = out.toLowerCase();
+  if (lower.endsWith('.v')) return writeVerilog(design, { delayTable });
+  if (lower.endsWith('.json')) return writeDesignJson(delayTable ? { ...design, delayTable } : design);
+  throw new UsageError(`--out ${out}: give a file ending in .v (Verilog) or .json (Skiplane JSON)`);
+}
+
+function runExport(args: CliArgs): Output {
+  const design = loadDesign(args);
+  const { delayTable } = options(args);
+  writeText(args.out!, writeDesign(design, args.out!, delayTable));
+  const json = { out: args.out, top: design.top, modules: design.modules.length };
+  return { json, text: `wrote ${args.out} (${design.modules.length} module${design.modules.length === 1 ? '' : 's'}, top ${design.top})` };
+}
+
+function runGenerate(args: CliArgs): Output {
+  const { delayTable } = options(args);
+  const design = generateAdder({ arch: args.arch as 'ripple' | 'skip', width: args.width!, block: args.block, blocks: args.blocks, delayTable });
+  const out = args.out ?? 'stdout.v';
+  const text = writeDesign(design, out, delayTable);
+  if (!args.out) return { json: { top: design.top, verilog: text }, text: text.trimEnd() };
+  writeText(args.out, text);
+  return { json: { out: args.out, top: design.top }, text: `wrote ${args.out} (top ${design.top})` };
+}
+
+const COMMAND_RUNNERS: Record<CliArgs['command'], (args: CliArgs) => Output> = {
+  lint: runLint,
+  sim: runSim,
+  timing: runTiming,
+  export: runExport,
+  generate: runGenerate,
+};
+
+/** JSON with BigInt-free values (the runners already turn numbers into hex strings). */
+function printJson(value: unknown): void {
+  process.stdout.write(JSON.stringify(value) + '\n');
+}
+
+export function main(argv: string[]): number {
+  if (argv.includes('--help') || argv.includes('-h')) {
+    process.stdout.write(USAGE + '\n');
+    return 0;
+  }
+  let json = argv.includes('--json');
+  try {
+    const args = parseCli(argv);
+    json = args.json;
+    const out = COMMAND_RUNNERS[args.command](args);
+    if (json) printJson(out.json);
+    else if (out.text) process.stdout.write(out.text + '\n');
+    return 0;
+  } catch (e) {
+    if (e instanceof DesignFailure) {
+      if (json) printJson(e.json);
+      else process.stdout.write(e.text + '\n');
+      return 1;
+    }
+    if (e instanceof UsageError || e instanceof EngineError) {
+      process.stderr.write(`skiplane: ${e.message.split('\n').join('\n  ')}\n`);
+      return 2;
+    }
+    // A bug of ours: still one line, and a hint on where to report it.
+    process.stderr.write(`skiplane: internal error: ${(e as Error)?.message ?? String(e)} (please report this with the input file)\n`);
+    return 2;
+  }
+}
+
+process.exitCode = main(process.argv.slice(2));
