@@ -167,13 +167,13 @@ export class TimingSimulator {
       this.settle(inputs);
       return this.result();
     }
-    const c = this.c;
+    const inputNets = this.c.inputNets;
+    const values = this.values;
     this.wheel.rewind();
     this.beginTime();
-    for (let i = 0; i < c.inputNets.length; i++) {
-      const net = c.inputNets[i];
+    for (let i = 0; i < inputNets.length; i++) {
       const v = inputs[i] ? 1 : 0;
-      if (this.values[net] !== v) this.setNet(net, v);
+      if (values[inputNets[i]] !== v) this.setNet(inputNets[i], v);
     }
     this.evaluateDirty(0);
     this.runTimeStep(0);
