@@ -21,7 +21,7 @@
 import { evalPin, settleValues, type CompiledNetlist } from './compile';
 import { EngineError } from './errors';
 import type { PathEntry } from './flat';
-import { TimingWheel } from './timing-wheel';
+import { grown, TimingWheel } from './timing-wheel';
 
 export type DelayMode = 'inertial' | 'transport';
 
@@ -324,11 +324,10 @@ export class TimingSimulator {
 
   private growLog(): void {
     const n = this.logTime.length * 2;
-    const grow = <T extends Int32Array | Uint8Array>(a: T, to: T): T => (to.set(a), to);
-    this.logTime = grow(this.logTime, new Int32Array(n));
-    this.logNet = grow(this.logNet, new Int32Array(n));
-    this.logValue = grow(this.logValue, new Uint8Array(n));
-    this.logPrev = grow(this.logPrev, new Int32Array(n));
+    this.logTime = grown(this.logTime, n);
+    this.logNet = grown(this.logNet, n);
+    this.logValue = grown(this.logValue, n);
+    this.logPrev = grown(this.logPrev, n);
   }
 
   private startVector(): void {

@@ -180,15 +180,17 @@ export class TimingWheel {
 
   private grow(): void {
     const capacity = this.time.length * 2;
-    this.time = copyInto(new Int32Array(capacity), this.time);
-    this.pin = copyInto(new Int32Array(capacity), this.pin);
-    this.value = copyInto(new Uint8Array(capacity), this.value);
-    this.dead = copyInto(new Uint8Array(capacity), this.dead);
-    this.next = copyInto(new Int32Array(capacity), this.next);
+    this.time = grown(this.time, capacity);
+    this.pin = grown(this.pin, capacity);
+    this.value = grown(this.value, capacity);
+    this.dead = grown(this.dead, capacity);
+    this.next = grown(this.next, capacity);
   }
 }
 
-function copyInto<T extends Int32Array | Uint8Array>(to: T, from: T): T {
-  to.set(from);
+/** A copy of a typed array in a larger one of the same type. */
+export function grown<T extends Int32Array | Uint8Array>(array: T, length: number): T {
+  const to = new (array.constructor as new (n: number) => T)(length);
+  to.set(array);
   return to;
 }

@@ -6,7 +6,7 @@ import { describe, expect, it } from 'vitest';
 import { compile } from '../../src/engine/compile';
 import { EngineError } from '../../src/engine/errors';
 import { TimingSimulator, type SimulatorOptions } from '../../src/engine/simulate';
-import { flatOf, type FlatSpec } from './support/flat-gen';
+import { flatOf, rippleFlat, type FlatSpec } from './support/flat-gen';
 
 /** Settle on `first`, apply `next`, and name the changes. */
 function run(spec: FlatSpec, first: number[], next: number[], opts: SimulatorOptions = {}) {
@@ -262,6 +262,23 @@ describe('TimingSimulator', () => {
     expect(sim.values[c.outputNets[0]]).toBe(0);
     expect(sim.apply([0])).toMatchObject({ settle: 1, outputChanges: 1 });
     expect(sim.values[c.outputNets[0]]).toBe(1);
+  });
+
+  it('records long change logs (log growth) that replay to the final values', () => {
+    const { flat } = rippleFlat(200);
+    const c = compile(flat);
+    const sim = new TimingSimulator(c, { recordChanges: true, recordPath: true });
+    const zeros = new Array(c.inputNets.length).fill(0);
+    sim.settle(zeros);
+    const before = Uint8Array.from(sim.values);
+    // a = all ones, b = 0, cin = 1: the carry ripples through every stage.
+    const inputs = flat.inputs.flatMap((bus) => bus.bits.map(() => (bus.name === 'b' ? 0 : 1)));
+    const r = sim.apply(inputs);
+    expect(r.changes!.length).toBeGreaterThan(256);
+    for (const ch of r.changes!) before[ch.net] = ch.value;
+    expect(Array.from(before)).toEqual(Array.from(sim.values));
+    expect(r.path!.length).toBe(201); // a[0], c1 .. c199, cout
+    expect(r.settle).toBe(600);
   });
 
   it('uses the overflow list when delays exceed the ring', () => {
