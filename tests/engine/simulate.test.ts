@@ -277,8 +277,10 @@ describe('TimingSimulator', () => {
     expect(r.changes!.length).toBeGreaterThan(256);
     for (const ch of r.changes!) before[ch.net] = ch.value;
     expect(Array.from(before)).toEqual(Array.from(sim.values));
-    expect(r.path!.length).toBe(201); // a[0], c1 .. c199, cout
-    expect(r.settle).toBe(600);
+    // c199 rises at 199 × 3 = 597, s[199] falls at 597 + 5 = 602 (cout rises at 600).
+    expect(r.settle).toBe(602);
+    expect(r.path!.length).toBe(201); // a[0], c1 .. c199, s[199]
+    expect(r.path!.at(-1)).toEqual({ net: 's[199]', cell: 'fa199', time: 602 });
   });
 
   it('uses the overflow list when delays exceed the ring', () => {
