@@ -64,10 +64,10 @@ endmodule
   const dir = mkdtempSync(join(tmpdir(), 'skiplane-iv-'));
   writeFileSync(join(dir, 'design.v'), verilog);
   writeFileSync(join(dir, 'tb.v'), tb);
-  const compile = spawnSync('iverilog', ['-g2005', '-o', join(dir, 'sim'), join(dir, 'design.v'), join(dir, 'tb.v')], { encoding: 'utf8' });
+  const compile = spawnSync('iverilog', ['-g2005', '-o', join(dir, 'sim'), join(dir, 'design.v'), join(dir, 'tb.v')], { encoding: 'utf8', timeout: 60_000 });
   expect(compile.stderr).toBe('');
   expect(compile.status).toBe(0);
-  const out = execFileSync('vvp', ['-n', join(dir, 'sim')], { encoding: 'utf8' });
+  const out = execFileSync('vvp', ['-n', join(dir, 'sim')], { encoding: 'utf8', timeout: 60_000 });
   return out
     .split('\n')
     .filter((l) => /^\d+( [01]+)+$/.test(l))
@@ -296,4 +296,75 @@ describe.skipIf(!hasIverilog)('written Verilog in Icarus Verilog (iverilog -g200
       { numRuns: 25 },
     );
   });
+
+  it('random hand-style Verilog reads as iverilog reads it: widths, zero extension, constants, conditions (fast-check)', () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 1, max: 2 ** 31 - 1 }), (seed) => {
+        const text = randomVerilog(seed);
+        const design = parseVerilog(text, 'random.v');
+        const rows = simulateAll(text, design);
+        expect(rows).toHaveLength(512);
+        for (const { inputs, outputs } of rows) expect(ours(design, inputs)).toEqual(outputs);
+      }),
+      { numRuns: 15 },
+    );
+  });
 });
+
+/**
+ * Verilog as a person writes it, not as writeVerilog does: ANSI or list
+ * headers, unnamed gates, ordered connections, bus assigns whose operands
+ * are as wide as the target or 1 bit (zero-extended, IEEE 1364 §5.4.1),
+ * sized and unsized constants, `?:` conditions widened by constants.
+ */
+function randomVerilog(seed: number): string {
+  let state = seed;
+  const rnd = (n: number) => {
+    state = (Math.imul(state, 1103515245) + 12345) >>> 0;
+    return (state >>> 8) % n;
+  };
+  const pick = <T,>(xs: T[]): T => xs[rnd(xs.length)];
+  const operands: Record<number, string[]> = {
+    4: ['a', 'b', 'a[3:0]', 'b[0:3]', '{c, a[2:0]}', '{b[1:2], c, a[0]}', '{2{a[1], c}}', 't'],
+    3: ['a[2:0]', 'b[1:3]', '{c, a[3], b[0]}', 't[2:0]'],
+    1: ['c', 'a[2]', 'b[0]', 'b[3]', 'q', 't[3]'],
+  };
+  const constants = ["1'b0", "1'b1", "4'b1010", "4'hc", "3'o5", '5', '0', "2'b11"];
+  const expr = (w: number, depth: number): string => {
+    switch (rnd(depth <= 0 ? 3 : 8)) {
+      case 0:
+        return pick(operands[w]);
+      case 1:
+        return pick(operands[1]);
+      case 2:
+        return pick(constants);
+      case 3:
+        return `~(${expr(w, depth - 1)})`;
+      case 4:
+        return `(${expr(w, depth - 1)} & ${expr(w, depth - 1)})`;
+      case 5:
+        return `(${expr(w, depth - 1)} | ${expr(w, depth - 1)})`;
+      case 6:
+        return `(${expr(w, depth - 1)} ${pick(['^', '~^', '^~'])} ${expr(w, depth - 1)})`;
+      default:
+        return `(${expr(1, depth - 1)} ? ${expr(w, depth - 1)} : ${expr(w, depth - 1)})`;
+    }
+  };
+  const header = rnd(2)
+    ? 'module top (input [3:0] a, input [0:3] b, input c, output [3:0] y, output z, output [0:2] w);'
+    : 'module top (a, b, c, y, z, w);\n  input [3:0] a;\n  input [0:3] b;\n  input c;\n  output [3:0] y;\n  output z;\n  output [0:2] w;';
+  return `${header}
+  wire q;
+  wire [3:0] t;
+  ${pick(['and', 'or', 'nand', 'nor', 'xor', 'xnor'])} #${rnd(3)} (q, ${pick(['c', 'a[2]', "1'b1"])}, ${pick(['b[0]', 't[3]'])});
+  inner u1 (${rnd(2) ? 't, a, c' : '.x(a), .o(t), .e(c)'});
+  assign #(${rnd(4)}, ${rnd(4)}) y = ${expr(4, 3)};
+  assign z = ${expr(1, 3)}, w = ${expr(3, 3)};
+endmodule
+
+module inner (output [3:0] o, input [3:0] x, input e);
+  assign o[3:1] = x[3:1] ^ {3{e}};
+  not (o[0], x[0]);
+endmodule
+`;
+}

@@ -196,6 +196,12 @@ describe('parseVerilog: assign (SPEC §1 expression cells)', () => {
     expect(evalExpr(q.expr!, () => 0)).toBe(0);
   });
 
+  it('treats a ?: condition as true when any bit is 1, constants widening it (IEEE 1364 §5.1.13)', () => {
+    const y = mod(parseVerilog("module m (input a, b, c, output y); assign y = (c | 4'b1000) ? a : b; endmodule", 'm.v'), 'm').cells[0];
+    expect(y.expr).toEqual({ op: 'mux', s: { op: 'const', value: 1 }, t: { op: 'in', pin: 'i0' }, f: { op: 'in', pin: 'i1' } });
+    expect(Object.keys(y.pins)).toEqual(['y', 'i0', 'i1']); // c no longer matters: no pin for it
+  });
+
   it('reads `wire x = expr;` as a declaration and an assign', () => {
     const m = mod(parseVerilog('module m (input a, b, output y); wire #(1, 2) t = a & b; buf (y, t); endmodule', 'm.v'), 'm');
     expect(m.nets.map((n) => n.name)).toEqual(['a', 'b', 'y', 't']);

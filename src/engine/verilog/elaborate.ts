@@ -220,20 +220,17 @@ class ModuleElaborator {
     const width = target.length;
     const operandBits = new Map<Operand, Signal>();
     this.checkWidths(a.rhs, width, operandText(a.lhs), operandBits);
+    const bitsByKey = new Map<string, NetBit>();
+    const keyOf = (b: NetBit): string => {
+      const key = `${b.net}\u0000${b.index}`;
+      bitsByKey.set(key, b);
+      return key;
+    };
     return target.map((bit, k) => {
+      // Built with bit keys in the `in` nodes; pins are numbered once the expression is final.
+      const { expr, inputs } = numberPins(this.bitExpr(a.rhs, width - 1 - k, operandBits, keyOf));
       const pins: Record<string, Signal> = { y: [bit] };
-      const pinOf = new Map<string, string>();
-      const pinFor = (b: NetBit): string => {
-        const key = `${b.net}\u0000${b.index}`;
-        let pin = pinOf.get(key);
-        if (!pin) {
-          pin = `i${pinOf.size}`;
-          pinOf.set(key, pin);
-          pins[pin] = [b];
-        }
-        return pin;
-      };
-      const expr = this.bitExpr(a.rhs, width - 1 - k, operandBits, pinFor);
+      inputs.forEach((key, n) => (pins[`i${n}`] = [bitsByKey.get(key)!]));
       const name = this.freshName(`assign$${bitName(bit)}`, false);
       return { name, kind: 'expr', pins, delay: { y: a.delay }, expr, loc: a.loc } satisfies Cell;
     });
@@ -266,9 +263,26 @@ class ModuleElaborator {
     }
   }
 
-  /** Bit `i` (0 = least significant) of an expression, as an Expr over the cell's pins. */
-  private bitExpr(e: RawExpr, i: number, operandBits: Map<Operand, Signal>, pinFor: (b: NetBit) => string): Expr {
-    const rec = (x: RawExpr, bit: number) => this.bitExpr(x, bit, operandBits, pinFor);
+  /**
+   * A `?:` condition is self-determined and true when any bit is 1 (IEEE 1364
+   * §5.1.13, §5.4.1): its nets are 1 bit, but a constant may widen it, e.g.
+   * `(c | 4'b1000) ? …` is always true. So: bit 0, or'ed with any higher bit
+   * that is not constant 0.
+   */
+  private condition(c: RawExpr, operandBits: Map<Operand, Signal>, keyOf: (b: NetBit) => string): Expr {
+    let result = this.bitExpr(c, 0, operandBits, keyOf);
+    for (let i = 1; i < constWidth(c); i++) {
+      const bit = this.bitExpr(c, i, operandBits, keyOf);
+      const value = constantValue(bit);
+      if (value === 1) return { op: 'const', value: 1 };
+      if (value === null) result = { op: 'or', a: result, b: bit };
+    }
+    return result;
+  }
+
+  /** Bit `i` (0 = least significant) of an expression; `in` nodes hold bit keys until numberPins. */
+  private bitExpr(e: RawExpr, i: number, operandBits: Map<Operand, Signal>, keyOf: (b: NetBit) => string): Expr {
+    const rec = (x: RawExpr, bit: number) => this.bitExpr(x, bit, operandBits, keyOf);
     switch (e.k) {
       case 'not':
         return { op: 'not', a: rec(e.a, i) };
@@ -277,11 +291,8 @@ class ModuleElaborator {
         const b = rec(e.b, i);
         return e.op === 'xnor' ? { op: 'not', a: { op: 'xor', a, b } } : { op: e.op, a, b };
       }
-      case 'cond': {
-        // The condition is self-determined (IEEE 1364 §5.1.13): a constant is true when nonzero.
-        const s: Expr = e.c.k === 'const' ? { op: 'const', value: e.c.value.value !== 0n ? 1 : 0 } : rec(e.c, 0);
-        return { op: 'mux', s, t: rec(e.t, i), f: rec(e.f, i) };
-      }
+      case 'cond':
+        return { op: 'mux', s: this.condition(e.c, operandBits, keyOf), t: rec(e.t, i), f: rec(e.f, i) };
       case 'const': {
         const w = e.value.width ?? 32;
         return { op: 'const', value: i < w ? (Number((e.value.value >> BigInt(i)) & 1n) as 0 | 1) : 0 };
@@ -290,8 +301,86 @@ class ModuleElaborator {
         const bits = operandBits.get(e)!;
         if (i >= bits.length) return { op: 'const', value: 0 }; // zero extension
         const b = bits[bits.length - 1 - i];
-        return 'const' in b ? { op: 'const', value: b.const } : { op: 'in', pin: pinFor(b) };
+        return 'const' in b ? { op: 'const', value: b.const } : { op: 'in', pin: keyOf(b) };
       }
     }
   }
+}
+
+/** Widest constant in an expression (32 for an unsized one), at least 1. */
+function constWidth(e: RawExpr): number {
+  switch (e.k) {
+    case 'const':
+      return e.value.width ?? 32;
+    case 'not':
+      return constWidth(e.a);
+    case 'bin':
+      return Math.max(constWidth(e.a), constWidth(e.b));
+    case 'cond':
+      return Math.max(constWidth(e.t), constWidth(e.f));
+    default:
+      return 1;
+  }
+}
+
+/** The value of an expression without inputs, or null when it reads a pin. */
+function constantValue(e: Expr): 0 | 1 | null {
+  switch (e.op) {
+    case 'in':
+      return null;
+    case 'const':
+      return e.value;
+    case 'not': {
+      const a = constantValue(e.a);
+      return a === null ? null : a === 1 ? 0 : 1;
+    }
+    case 'mux': {
+      const s = constantValue(e.s);
+      const t = constantValue(e.t);
+      const f = constantValue(e.f);
+      if (s === null) return t !== null && t === f ? t : null;
+      return s ? t : f;
+    }
+    default: {
+      const a = constantValue(e.a);
+      const b = constantValue(e.b);
+      if (e.op === 'and' && (a === 0 || b === 0)) return 0;
+      if (e.op === 'or' && (a === 1 || b === 1)) return 1;
+      if (a === null || b === null) return null;
+      return (e.op === 'and' ? a & b : e.op === 'or' ? a | b : a ^ b) as 0 | 1;
+    }
+  }
+}
+
+/**
+ * Renames the `in` nodes to pins i0, i1, … in order of first use (condition,
+ * then the branches; left before right), one pin per distinct bit. This is
+ * the canonical form the writer's output reads back to.
+ */
+function numberPins(e: Expr): { expr: Expr; inputs: string[] } {
+  const pinOf = new Map<string, string>();
+  const rename = (x: Expr): Expr => {
+    switch (x.op) {
+      case 'in': {
+        let pin = pinOf.get(x.pin);
+        if (!pin) pinOf.set(x.pin, (pin = `i${pinOf.size}`));
+        return { op: 'in', pin };
+      }
+      case 'const':
+        return x;
+      case 'not':
+        return { op: 'not', a: rename(x.a) };
+      case 'mux': {
+        const sel = rename(x.s);
+        const t = rename(x.t);
+        return { op: 'mux', s: sel, t, f: rename(x.f) };
+      }
+      default: {
+        const a = rename(x.a);
+        return { op: x.op, a, b: rename(x.b) };
+      }
+    }
+  };
+  const expr = rename(e);
+  return { expr, inputs: [...pinOf.keys()] };
 }

@@ -303,18 +303,21 @@ export function evaluateFlat(flat: FlatNetlist, inputs: Map<number, number>): Ui
   if (flat.const1 >= 0) values[flat.const1] = 1;
   const driverOf = new Map<number, number>();
   flat.cells.forEach((c, i) => c.outputs.forEach((n) => driverOf.set(n, i)));
-  const done = new Uint8Array(flat.cells.length);
+  // Depth-first over drivers: 0 unseen, 1 on the current path, 2 evaluated.
+  const state = new Uint8Array(flat.cells.length);
   for (let root = 0; root < flat.cells.length; root++) {
-    const stack = [root];
+    if (state[root]) continue;
+    state[root] = 1;
+    const stack = [{ ci: root, next: 0 }];
     while (stack.length > 0) {
-      const ci = stack[stack.length - 1];
-      if (done[ci]) {
-        stack.pop();
-        continue;
-      }
-      const waiting = flat.cells[ci].inputs.map((n) => driverOf.get(n)).filter((d): d is number => d !== undefined && !done[d]);
-      if (waiting.length > 0) {
-        stack.push(...waiting);
+      const frame = stack[stack.length - 1];
+      const ci = frame.ci;
+      if (frame.next < flat.cells[ci].inputs.length) {
+        const d = driverOf.get(flat.cells[ci].inputs[frame.next++]);
+        if (d === undefined || state[d] === 2) continue;
+        if (state[d] === 1) throw new Error(`evaluateFlat: combinational loop through ${flat.cells[d].name}`);
+        state[d] = 1;
+        stack.push({ ci: d, next: 0 });
         continue;
       }
       const c = flat.cells[ci];
@@ -361,7 +364,7 @@ export function evaluateFlat(flat: FlatNetlist, inputs: Map<number, number>): Ui
           break;
       }
       c.outputPins.forEach((p, i) => (values[c.outputs[i]] = out[p]));
-      done[ci] = 1;
+      state[ci] = 2;
       stack.pop();
     }
   }
