@@ -6,7 +6,7 @@
  * writer) and the same vectors (iverilog's compile time excluded). The
  * per-vector settle times of the two must agree on every vector.
  */
-import { execFileSync, spawnSync } from 'node:child_process';
+import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -54,7 +54,8 @@ export function benchSimVsVvp() {
   // Icarus Verilog: compile once (not timed), then time vvp alone.
   const tb = writeAdderTestbench(dir, { top: design.top, width: 32, a: 'a', b: 'b', cin: 'cin', sum: 's', cout: 'cout' }, vectors, period);
   const image = compileIverilog(dir, [join(dir, 'dut.v'), tb]);
-  const vvpVersion = execFileSync('vvp', ['-V'], { encoding: 'utf8' }).split('\n')[0];
+  // vvp prints its version on standard error.
+  const vvpVersion = spawnSync('vvp', ['-V'], { encoding: 'utf8' }).stderr.split('\n')[0].trim();
   const vvp = timed('vvp', ['-n', image], dir);
   const vvpSteps = readSteps(dir);
 

@@ -28,9 +28,10 @@ class DesignFailure {
   constructor(readonly json: unknown, readonly text: string) {}
 }
 
+/** A command's result; only the form asked for is built (a long simulation's text table is not cheap). */
 interface Output {
-  json: unknown;
-  text: string;
+  json: () => unknown;
+  text: () => string;
 }
 
 /** `npm run` starts scripts in the package folder; paths on the command line are relative to where the user typed them. */
@@ -86,9 +87,8 @@ function prepare(args: CliArgs): { adder: PreparedAdder; lint: LintResult } {
 function runLint(args: CliArgs): Output {
   const opts = options(args);
   const result = prepareAdder(loadDesign(args), opts).lint;
-  const out = { json: lintJson(result), text: formatLint(result) };
-  if (result.errors.length > 0) throw new DesignFailure(out.json, out.text);
-  return out;
+  if (result.errors.length > 0) throw new DesignFailure(lintJson(result), formatLint(result));
+  return { json: () => lintJson(result), text: () => formatLint(result) };
 }
 
 function runSim(args: CliArgs): Output {
@@ -107,7 +107,7 @@ function runSim(args: CliArgs): Output {
     steps = runVectors(adder.compiled, adder.ports, vectors, { mode });
   }
   return {
-    json: {
+    json: () => ({
       steps: steps.map((s) => ({
         a: hex(s.a),
         b: hex(s.b),
@@ -117,8 +117,8 @@ function runSim(args: CliArgs): Output {
         lastEvent: s.lastEvent,
         outputChanges: s.outputChanges,
       })),
-    },
-    text: formatSim(steps, adder.ports.width),
+    }),
+    text: () => formatSim(steps, adder.ports.width),
   };
 }
 
@@ -134,7 +134,7 @@ function runTiming(args: CliArgs): Output {
     throw e;
   }
   return {
-    json: {
+    json: () => ({
       topological: { delay: report.topological.delay, path: pathJson(report.topological.path) },
       worst: report.worst && {
         delay: report.worst.delay,
@@ -145,8 +145,8 @@ function runTiming(args: CliArgs): Output {
       pairs: report.pairs,
       falsePath: report.falsePath,
       ...(search.mode === 'random' ? { seed: search.seed.toString() } : {}),
-    },
-    text: formatTiming(report, search),
+    }),
+    text: () => formatTiming(report, search),
   };
 }
 
@@ -163,7 +163,7 @@ function runExport(args: CliArgs): Output {
   const { delayTable } = options(args);
   writeText(args.out!, writeDesign(design, args.out!, delayTable));
   const json = { out: args.out, top: design.top, modules: design.modules.length };
-  return { json, text: `wrote ${args.out} (${design.modules.length} module${design.modules.length === 1 ? '' : 's'}, top ${design.top})` };
+  return { json: () => json, text: () => `wrote ${args.out} (${design.modules.length} module${design.modules.length === 1 ? '' : 's'}, top ${design.top})` };
 }
 
 function runGenerate(args: CliArgs): Output {
@@ -171,9 +171,9 @@ function runGenerate(args: CliArgs): Output {
   const design = generateAdder({ arch: args.arch as 'ripple' | 'skip', width: args.width!, block: args.block, blocks: args.blocks, delayTable });
   const out = args.out ?? 'stdout.v';
   const text = writeDesign(design, out, delayTable);
-  if (!args.out) return { json: { top: design.top, verilog: text }, text: text.trimEnd() };
+  if (!args.out) return { json: () => ({ top: design.top, verilog: text }), text: () => text.trimEnd() };
   writeText(args.out, text);
-  return { json: { out: args.out, top: design.top }, text: `wrote ${args.out} (top ${design.top})` };
+  return { json: () => ({ out: args.out, top: design.top }), text: () => `wrote ${args.out} (top ${design.top})` };
 }
 
 const COMMAND_RUNNERS: Record<CliArgs['command'], (args: CliArgs) => Output> = {
@@ -199,8 +199,8 @@ export function main(argv: string[]): number {
     const args = parseCli(argv);
     json = args.json;
     const out = COMMAND_RUNNERS[args.command](args);
-    if (json) printJson(out.json);
-    else if (out.text) process.stdout.write(out.text + '\n');
+    if (json) printJson(out.json());
+    else process.stdout.write(out.text() + '\n');
     return 0;
   } catch (e) {
     if (e instanceof DesignFailure) {
