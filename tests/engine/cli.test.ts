@@ -14,7 +14,8 @@ const root = join(import.meta.dirname, '..', '..');
 const dir = mkdtempSync(join(tmpdir(), 'skiplane-cli-'));
 
 function skiplane(...args: string[]) {
-  const r = spawnSync(join(root, 'node_modules/.bin/tsx'), [join(root, 'src/cli/main.ts'), ...args], { cwd: dir, encoding: 'utf8' });
+  // The launcher behind `npm run skiplane` (bundles src/cli and src/engine when they change).
+  const r = spawnSync(process.execPath, [join(root, 'scripts/skiplane.mjs'), ...args], { cwd: dir, encoding: 'utf8' });
   return { code: r.status, stdout: r.stdout, stderr: r.stderr };
 }
 
