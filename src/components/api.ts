@@ -24,6 +24,10 @@ export async function api<T>(path: string, init: RequestInit & { json?: unknown 
   } catch {
     // fall through: a non-JSON answer is reported below
   }
+  if (res.status === 401 && typeof window !== 'undefined') {
+    // The session ended (signed out elsewhere, expired): sign in again and come back here.
+    window.location.assign(`/sign-in?next=${encodeURIComponent(window.location.pathname + window.location.search)}`);
+  }
   if (!res.ok) {
     const err = (data as { error?: { code?: string; message?: string } } | null)?.error;
     throw new ApiClientError(res.status, err?.code ?? 'http_' + res.status, err?.message ?? `The server answered ${res.status} ${res.statusText}.`);

@@ -10,6 +10,7 @@ export type ErrorCode =
   | 'conflict'
   | 'payload_too_large'
   | 'unsupported_media_type'
+  | 'mail_failed'
   | 'internal';
 
 export class ApiError extends Error {

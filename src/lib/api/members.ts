@@ -94,7 +94,7 @@ export const inviteMember = route(
       });
     });
     const link = `${publicOrigin()}/invite/${token}`;
-    await sendMail({
+    await mailOrExplain({
       to: body.email,
       subject: `${me.name} invites you to "${project?.name}" on Skiplane`,
       text:
@@ -105,6 +105,20 @@ export const inviteMember = route(
     return json({ invitation: { id, email: body.email, role: body.role, createdAt: now, expiresAt } }, 201);
   },
 );
+
+/** The invitation is already saved when mail fails: say so, and how to retry. */
+async function mailOrExplain(mail: Parameters<typeof sendMail>[0]) {
+  try {
+    await sendMail(mail);
+  } catch (e) {
+    console.error('[mail]', e);
+    throw new ApiError(
+      502,
+      'mail_failed',
+      `The invitation is saved, but the e-mail to ${mail.to} could not be sent (${(e as Error).message}). Check SMTP_URL, then revoke the invitation and invite again.`,
+    );
+  }
+}
 
 export const changeMemberRole = route(
   { params: memberParams, body: changeRoleBody, scope: { type: 'project', need: 'manage' } },
