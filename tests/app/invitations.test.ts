@@ -110,4 +110,17 @@ describe('invitation flow', () => {
     const stranger = await signUp('Stranger', 'stranger@example.test');
     expect((await callJson('GET', '/api/dev/outbox', { cookie: stranger.cookie })).status).toBe(403);
   });
+
+  it('with SMTP_URL set, sends through SMTP, hides the outbox, and explains a failed send', async () => {
+    process.env.SMTP_URL = 'smtp://127.0.0.1:9'; // nothing listens on the discard port
+    try {
+      const res = await invite('hana@example.test', 'viewer');
+      expect(res.status).toBe(502);
+      expect(res.body.error.code).toBe('mail_failed');
+      expect(res.body.error.message).toContain('revoke the invitation and invite again');
+      expect((await callJson('GET', '/api/dev/outbox', { cookie: owner.cookie })).status).toBe(404);
+    } finally {
+      delete process.env.SMTP_URL;
+    }
+  });
 });
