@@ -17,7 +17,9 @@ function build(db: Db) {
     baseURL: publicOrigin(),
     basePath: '/api/auth',
     secret: authSecret(),
-    trustedOrigins: trustedOrigins(),
+    // The configured origins, plus the request's own origin: Astro builds request.url only from
+    // a Host it trusts (security.allowedDomains), so this admits same-origin calls on any port.
+    trustedOrigins: (request) => [...trustedOrigins(), request ? new URL(request.url).origin : null],
     database: drizzleAdapter(db, {
       provider: 'sqlite',
       schema: { user: schema.user, session: schema.session, account: schema.account, verification: schema.verification },
@@ -56,6 +58,8 @@ function build(db: Db) {
     advanced: {
       // Plain http on localhost must still get its cookie.
       useSecureCookies: publicOrigin().startsWith('https:'),
+      // better-auth turns the origin check off under test runners; keep it on so tests see production behaviour.
+      disableOriginCheck: false,
       // Set by src/pages/api/auth/[...all].ts from the socket address.
       ipAddress: { ipAddressHeaders: [CLIENT_IP_HEADER] },
     },

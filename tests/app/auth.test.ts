@@ -54,4 +54,13 @@ describe('accounts', () => {
     expect(res.status).toBe(200);
     expect(cookieFrom(res)).toMatch(/session_token=/);
   });
+
+  it('refuses sign-in posted from another origin', async () => {
+    await signUp('Otto', 'otto@example.test', 'otto-password-1');
+    const res = await call('POST', '/api/auth/sign-in/email', {
+      json: { email: 'otto@example.test', password: 'otto-password-1' },
+      headers: { origin: 'http://evil.example' },
+    });
+    expect(res.status).toBe(403);
+  });
 });
