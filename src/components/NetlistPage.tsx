@@ -48,7 +48,7 @@ const rc = createColumnHelper<Revision>();
 const ru = createColumnHelper<Run>();
 const runColumns = [
   ru.accessor('createdAt', { header: 'Started (UTC)', cell: (c) => <span className="mono text-[12px]">{utc(c.getValue())}</span> }),
-  ru.accessor('kind', { header: 'Kind' }),
+  ru.accessor('kind', { header: 'Kind', cell: (c) => <span className="nowrap">{c.getValue()}</span> }),
   ru.accessor('place', { header: 'Where' }),
   ru.accessor('status', { header: 'Verdict', cell: (c) => <RunStatus status={c.getValue()} /> }),
   ru.accessor('progress', { header: 'Progress', cell: (c) => <span className="mono">{Math.round(c.getValue() * 100)} %</span> }),
