@@ -94,6 +94,7 @@ describe('revisions', () => {
     const over = await upload('bigger.v', bigText(MIB2 + 1));
     expect(over.status).toBe(413);
     expect(over.body.error.code).toBe('payload_too_large');
+    expect(over.body.error.message).toContain('2 MiB');
   });
 
   it('refuses 2 MiB + 1 byte of content in a JSON body with 413', async () => {

@@ -35,5 +35,6 @@ export const fail = {
 
 export function formatBytes(n: number): string {
   if (n >= 1024 * 1024 && n % (1024 * 1024) === 0) return `${n / (1024 * 1024)} MiB (${n} bytes)`;
+  if (n >= 1024 && n % 1024 === 0) return `${n / 1024} KiB (${n} bytes)`;
   return `${n} bytes`;
 }

@@ -42,10 +42,14 @@ export function parseWith<T extends z.ZodType>(schema: T, value: unknown): z.inf
   return r.data;
 }
 
-/** Reads the body, refusing early on Content-Length and again on the bytes actually read. */
-export async function readBodyLimited(request: Request, limit: number): Promise<Uint8Array<ArrayBuffer>> {
+/**
+ * Reads the body, refusing early on Content-Length and again on the bytes
+ * actually read. `shown` is the limit the caller names to people (e.g. the
+ * file limit, when `limit` adds room for the envelope around the file).
+ */
+export async function readBodyLimited(request: Request, limit: number, shown = limit): Promise<Uint8Array<ArrayBuffer>> {
   const declared = request.headers.get('content-length');
-  if (declared !== null && Number(declared) > limit) throw fail.tooLarge(limit);
+  if (declared !== null && Number(declared) > limit) throw fail.tooLarge(shown);
   if (!request.body) return new Uint8Array();
   const reader = request.body.getReader();
   const chunks: Uint8Array[] = [];
@@ -56,7 +60,7 @@ export async function readBodyLimited(request: Request, limit: number): Promise<
     total += value.byteLength;
     if (total > limit) {
       await reader.cancel().catch(() => undefined);
-      throw fail.tooLarge(limit);
+      throw fail.tooLarge(shown);
     }
     chunks.push(value);
   }
@@ -71,12 +75,12 @@ export async function readBodyLimited(request: Request, limit: number): Promise<
 
 export const JSON_BODY_LIMIT = 256 * 1024;
 
-export async function readJson(request: Request, limit = JSON_BODY_LIMIT): Promise<unknown> {
+export async function readJson(request: Request, limit = JSON_BODY_LIMIT, shown = limit): Promise<unknown> {
   const type = request.headers.get('content-type') ?? '';
   if (!/^application\/json\b/i.test(type)) {
     throw new ApiError(415, 'unsupported_media_type', 'Send the body as JSON with "Content-Type: application/json".');
   }
-  const bytes = await readBodyLimited(request, limit);
+  const bytes = await readBodyLimited(request, limit, shown);
   const text = new TextDecoder().decode(bytes);
   if (text.trim() === '') throw new ApiError(400, 'invalid_json', 'The request body is empty; send a JSON object.');
   try {

@@ -74,7 +74,7 @@ interface Incoming {
 async function readIncoming(request: Request): Promise<Incoming> {
   const type = request.headers.get('content-type') ?? '';
   if (/^multipart\/form-data\b/i.test(type)) {
-    const bytes = await readBodyLimited(request, MAX_REVISION_BYTES + MULTIPART_OVERHEAD);
+    const bytes = await readBodyLimited(request, MAX_REVISION_BYTES + MULTIPART_OVERHEAD, MAX_REVISION_BYTES);
     let form: FormData;
     try {
       form = await new Request('http://local/', { method: 'POST', headers: { 'content-type': type }, body: bytes }).formData();
@@ -90,7 +90,7 @@ async function readIncoming(request: Request): Promise<Incoming> {
     const msg = parseWith(message, String(form.get('message') ?? ''));
     return { content, format, filename: name, message: msg };
   }
-  const body = parseWith(createRevisionJsonBody, await readJson(request, JSON_ENVELOPE_LIMIT));
+  const body = parseWith(createRevisionJsonBody, await readJson(request, JSON_ENVELOPE_LIMIT, MAX_REVISION_BYTES));
   const byName = body.filename ? formatFromName(body.filename) : undefined;
   if (byName && body.format && byName !== body.format) {
     throw fail.invalid(`format is "${body.format}" but the file name "${body.filename}" says ${byName}; make them agree.`);
