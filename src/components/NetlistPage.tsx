@@ -172,9 +172,9 @@ function RevisionDetail({ revisionId, netlistId, role, meId }: { revisionId: str
       <div className="grid gap-4 xl:grid-cols-[minmax(0,1fr)_420px]">
         <Panel title={<>Runs of {rev(v.number)}</>} id="runs-title">
           {editable && <RunForm revisionId={revisionId} />}
-        <p className="px-3 pt-2 text-[12px] text-muted">
-          Runs are recorded with their parameters, seed and engine version; the engine that carries them out and reports verdicts is being connected.
-        </p>
+          <p className="px-3 pt-2 text-[12px] text-muted">
+            Runs are recorded with their parameters, seed and engine version; the engine that carries them out and reports verdicts is being connected.
+          </p>
           {runs.isPending ? (
             <Loading what="runs" />
           ) : runs.error ? (
