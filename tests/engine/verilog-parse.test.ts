@@ -326,4 +326,13 @@ endmodule`;
     onlyEngineErrors(`module m (input a, output y); assign y = ${'~'.repeat(100000)}a; endmodule`);
     onlyEngineErrors(`module m (input a, output y); buf (y, ${'{'.repeat(100000)}a${'}'.repeat(100000)}); endmodule`);
   });
+
+  it('conditions widened by constants, nested deep, end in an error rather than an exponential blow-up', () => {
+    let cond = 'c';
+    for (let k = 0; k < 60; k++) cond = `(${cond} ? 4'b1010 : 4'b0101)`;
+    expect(() => parseVerilog(`module m (input a, b, c, output y); assign y = ${cond} ? a : b; endmodule`, 'fuzz.v')).toThrow(/grows past 100000 operations per bit/);
+    cond = 'c';
+    for (let k = 0; k < 200; k++) cond = `(${cond} ? 4'b1111 : 0)`; // stays linear: each level is one condition
+    expect(parseVerilog(`module m (input a, b, c, output y); assign y = ${cond} ? a : b; endmodule`, 'fuzz.v').modules[0].cells).toHaveLength(1);
+  });
 });

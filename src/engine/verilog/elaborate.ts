@@ -6,7 +6,7 @@
  * undeclared net, a wrong width on a gate pin) are left to lint.
  */
 import { EngineError } from '../errors';
-import { bitName, indexRun } from '../flatten';
+import { bitName, declWidth, indexRun } from '../flatten';
 import type { Bit, Cell, Design, Expr, Instance, Module, NetDecl, Signal, SourceLoc } from '../model';
 import type { Operand, RawAssign, RawDecl, RawExpr, RawGate, RawInstance, RawModule } from './ast';
 
@@ -74,6 +74,16 @@ function operandText(op: Operand): string {
 
 type NetBit = Extract<Bit, { net: string }>;
 
+/** What the bits of one `assign` share while its cells are built. */
+interface AssignContext {
+  /** Bits of each net operand, most significant first. */
+  operandBits: Map<Operand, Signal>;
+  /** Key of a bit; `in` nodes hold keys until numberPins. */
+  keyOf: (b: NetBit) => string;
+  /** Each `?:` condition once: the same for every bit, and nested ones would otherwise multiply. */
+  conditions: Map<RawExpr, Expr>;
+}
+
 class ModuleElaborator {
   private readonly used = new Set<string>();
   private gateCounter = 0;
@@ -93,13 +103,13 @@ class ModuleElaborator {
     const instances: Instance[] = [];
     for (const item of raw.items) {
       if (item.k === 'gate') cells.push(this.gate(item));
-      else if (item.k === 'assign') cells.push(...this.assign(item));
+      else if (item.k === 'assign') for (const cell of this.assign(item)) cells.push(cell); // no spread: a bus may be wide
       else instances.push(this.instance(item));
     }
     return { name: raw.name, ports, nets, cells, instances, loc: raw.loc };
   }
 
-  /** Nets, named gates and instances share one name space (IEEE 1364 §12.7). */
+  /** Nets, named gates and instances share the module's one name space, as in Verilog. */
   private reserveExplicitNames(): void {
     for (const name of this.raw.decls.keys()) this.used.add(name);
     for (const item of this.raw.items) {
@@ -186,8 +196,8 @@ class ModuleElaborator {
   private instance(inst: RawInstance): Instance {
     const target = this.modules.get(inst.module);
     const portWidth = (port: string) => {
-      const range = target?.decls.get(port)?.range;
-      return range === undefined ? null : range === null ? 1 : Math.abs(range.msb - range.lsb) + 1;
+      const decl = target?.decls.get(port);
+      return decl ? declWidth(decl.range) : null;
     };
     const connections: Record<string, Signal> = {};
     if (inst.named) {
@@ -226,9 +236,11 @@ class ModuleElaborator {
       bitsByKey.set(key, b);
       return key;
     };
+    const ctx: AssignContext = { operandBits, keyOf, conditions: new Map() };
     return target.map((bit, k) => {
-      // Built with bit keys in the `in` nodes; pins are numbered once the expression is final.
-      const { expr, inputs } = numberPins(this.bitExpr(a.rhs, width - 1 - k, operandBits, keyOf));
+      const numbered = numberPins(this.bitExpr(a.rhs, width - 1 - k, ctx));
+      if (!numbered) this.fail(a.loc, `this assign grows past ${MAX_EXPR_NODES} operations per bit once split into bits; write it as smaller assigns`);
+      const { expr, inputs } = numbered!;
       const pins: Record<string, Signal> = { y: [bit] };
       inputs.forEach((key, n) => (pins[`i${n}`] = [bitsByKey.get(key)!]));
       const name = this.freshName(`assign$${bitName(bit)}`, false);
@@ -269,42 +281,60 @@ class ModuleElaborator {
    * `(c | 4'b1000) ? …` is always true. So: bit 0, or'ed with any higher bit
    * that is not constant 0.
    */
-  private condition(c: RawExpr, operandBits: Map<Operand, Signal>, keyOf: (b: NetBit) => string): Expr {
-    let result = this.bitExpr(c, 0, operandBits, keyOf);
+  private condition(c: RawExpr, ctx: AssignContext): Expr {
+    const known = ctx.conditions.get(c);
+    if (known) return known;
+    // Bit 0 stays as written (a 1-bit condition reads back unchanged); higher bits join it once each.
+    const first = this.bitExpr(c, 0, ctx);
+    let result = first;
+    const seen = new Set<Expr>([first, selectOf(first)]);
     for (let i = 1; i < constWidth(c); i++) {
-      const bit = this.bitExpr(c, i, operandBits, keyOf);
+      const bit = selectOf(this.bitExpr(c, i, ctx));
       const value = constantValue(bit);
-      if (value === 1) return { op: 'const', value: 1 };
-      if (value === null) result = { op: 'or', a: result, b: bit };
+      if (value === 1) {
+        result = { op: 'const', value: 1 };
+        break;
+      }
+      if (value === null && !seen.has(bit)) {
+        seen.add(bit);
+        result = { op: 'or', a: result, b: bit };
+      }
     }
+    ctx.conditions.set(c, result);
     return result;
   }
 
-  /** Bit `i` (0 = least significant) of an expression; `in` nodes hold bit keys until numberPins. */
-  private bitExpr(e: RawExpr, i: number, operandBits: Map<Operand, Signal>, keyOf: (b: NetBit) => string): Expr {
-    const rec = (x: RawExpr, bit: number) => this.bitExpr(x, bit, operandBits, keyOf);
+  /** Bit `i` (0 = least significant) of an expression. */
+  private bitExpr(e: RawExpr, i: number, ctx: AssignContext): Expr {
     switch (e.k) {
       case 'not':
-        return { op: 'not', a: rec(e.a, i) };
+        return { op: 'not', a: this.bitExpr(e.a, i, ctx) };
       case 'bin': {
-        const a = rec(e.a, i);
-        const b = rec(e.b, i);
+        const a = this.bitExpr(e.a, i, ctx);
+        const b = this.bitExpr(e.b, i, ctx);
         return e.op === 'xnor' ? { op: 'not', a: { op: 'xor', a, b } } : { op: e.op, a, b };
       }
-      case 'cond':
-        return { op: 'mux', s: this.condition(e.c, operandBits, keyOf), t: rec(e.t, i), f: rec(e.f, i) };
+      case 'cond': {
+        const s = this.condition(e.c, ctx);
+        return { op: 'mux', s, t: this.bitExpr(e.t, i, ctx), f: this.bitExpr(e.f, i, ctx) };
+      }
       case 'const': {
         const w = e.value.width ?? 32;
         return { op: 'const', value: i < w ? (Number((e.value.value >> BigInt(i)) & 1n) as 0 | 1) : 0 };
       }
       default: {
-        const bits = operandBits.get(e)!;
+        const bits = ctx.operandBits.get(e)!;
         if (i >= bits.length) return { op: 'const', value: 0 }; // zero extension
         const b = bits[bits.length - 1 - i];
-        return 'const' in b ? { op: 'const', value: b.const } : { op: 'in', pin: keyOf(b) };
+        return 'const' in b ? { op: 'const', value: b.const } : { op: 'in', pin: ctx.keyOf(b) };
       }
     }
   }
+}
+
+/** `s ? 1 : 0` is `s` itself (the common shape of a condition's higher bits), so equal terms stay one object. */
+function selectOf(e: Expr): Expr {
+  return e.op === 'mux' && e.t.op === 'const' && e.t.value === 1 && e.f.op === 'const' && e.f.value === 0 ? e.s : e;
 }
 
 /** Widest constant in an expression (32 for an unsized one), at least 1. */
@@ -323,8 +353,20 @@ function constWidth(e: RawExpr): number {
   }
 }
 
+/** Values found so far; expressions here are DAGs (shared conditions), so each node is valued once. */
+const constantValues = new WeakMap<Expr, 0 | 1 | null>();
+
 /** The value of an expression without inputs, or null when it reads a pin. */
 function constantValue(e: Expr): 0 | 1 | null {
+  let value = constantValues.get(e);
+  if (value === undefined) {
+    value = computeConstant(e);
+    constantValues.set(e, value);
+  }
+  return value;
+}
+
+function computeConstant(e: Expr): 0 | 1 | null {
   switch (e.op) {
     case 'in':
       return null;
@@ -355,11 +397,14 @@ function constantValue(e: Expr): 0 | 1 | null {
 /**
  * Renames the `in` nodes to pins i0, i1, … in order of first use (condition,
  * then the branches; left before right), one pin per distinct bit. This is
- * the canonical form the writer's output reads back to.
+ * the canonical form the writer's output reads back to. Null when the tree
+ * is too large.
  */
-function numberPins(e: Expr): { expr: Expr; inputs: string[] } {
+function numberPins(e: Expr): { expr: Expr; inputs: string[] } | null {
   const pinOf = new Map<string, string>();
+  let budget = MAX_EXPR_NODES;
   const rename = (x: Expr): Expr => {
+    if (--budget < 0) throw TOO_LARGE;
     switch (x.op) {
       case 'in': {
         let pin = pinOf.get(x.pin);
@@ -381,6 +426,15 @@ function numberPins(e: Expr): { expr: Expr; inputs: string[] } {
       }
     }
   };
-  const expr = rename(e);
-  return { expr, inputs: [...pinOf.keys()] };
+  try {
+    const expr = rename(e);
+    return { expr, inputs: [...pinOf.keys()] };
+  } catch (err) {
+    if (err === TOO_LARGE) return null;
+    throw err;
+  }
 }
+
+/** Conditions shared between bits make a DAG; written out as a tree it must stay this small. */
+const MAX_EXPR_NODES = 100_000;
+const TOO_LARGE = new Error('expression too large');
