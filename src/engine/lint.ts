@@ -156,7 +156,7 @@ interface BitUse {
   readers: string[];
   /** Cells driving the bit, for the dangling-output warning. */
   driverCells: string[];
-  /** Connected to a cell of unknown kind, which may drive it: no undriven finding then. */
+  /** On a pin lint cannot read (unknown kind or module, wrong width), which may drive it: no undriven finding then. */
   opaque?: boolean;
 }
 
@@ -164,15 +164,12 @@ class ModuleChecker {
   private readonly nets = new Map<string, NetDecl>();
   private readonly bits = new Map<string, BitUse>();
   private readonly reportedUndeclared = new Set<string>();
-  private readonly m: Module;
 
   constructor(
-    m: Module,
+    private readonly m: Module,
     private readonly modules: Map<string, Module>,
     private readonly out: Findings,
-  ) {
-    this.m = m;
-  }
+  ) {}
 
   private where(what?: string): string {
     return what ? `module ${this.m.name}, ${what}` : `module ${this.m.name}`;
@@ -377,7 +374,7 @@ class ModuleChecker {
       const undriven = uses.filter((u) => u.drivers.length === 0 && u.readers.length > 0 && !u.opaque);
       if (undriven.length > 0) {
         const bits = undriven.length === uses.length && uses.length > 1 ? `every bit of '${net}'` : listed(undriven.map((u) => u.label));
-        this.out.error('undriven', where, `${bits} ${undriven.length > 1 ? 'have' : 'has'} no driver but ${undriven.length > 1 ? 'are' : 'is'} read by ${listed([...new Set(undriven.flatMap((u) => u.readers))])}${atLine(loc)}; drive it from a cell, an input port or a constant`);
+        this.out.error('undriven', where, `${bits} ${undriven.length > 1 ? 'have' : 'has'} no driver but ${undriven.length > 1 ? 'are' : 'is'} read by ${listed([...new Set(undriven.flatMap((u) => u.readers))])}${atLine(loc)}; drive ${undriven.length > 1 ? 'them' : 'it'} from a cell, an input port or a constant`);
       }
       for (const u of uses.filter((x) => x.drivers.length > 1)) {
         this.out.error('multiple-drivers', this.where(`net ${u.label}`), `${u.label} has ${u.drivers.length} drivers: ${listed(u.drivers)}${atLine(loc)}; keep one and rename the other outputs`);
