@@ -78,6 +78,12 @@ describe('parseVerilog: modules and ports (SPEC §6, IEEE 1364 §12)', () => {
     expect(mod(d, 'm').nets[0].loc).toEqual({ line: 4, column: 6 });
   });
 
+  it('reads Windows line endings and a byte order mark', () => {
+    const d = parseVerilog('\uFEFFmodule m (input a, output y);\r\n  buf b (y, a); // note\r\nendmodule\r\n', 'm.v');
+    expect(d.modules[0].loc).toEqual({ line: 1, column: 1 });
+    expect(d.modules[0].cells[0].loc).toEqual({ line: 2, column: 7 });
+  });
+
   it('finds the top as the module nobody instances, defined before or after', () => {
     const src = `module top (input a, output y); leaf u (.x(a), .y(y)); endmodule
                  module leaf (input x, output y); buf (y, x); endmodule`;

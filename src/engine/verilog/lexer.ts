@@ -53,9 +53,9 @@ export function describeToken(t: Token): string {
 
 export function lexVerilog(text: string, fileName: string): Token[] {
   const tokens: Token[] = [];
-  let pos = 0;
+  let pos = text.startsWith('\uFEFF') ? 1 : 0; // a byte order mark, as some editors save files
   let line = 1;
-  let lineStart = 0;
+  let lineStart = pos;
   const here = (): SourceLoc => ({ line, column: pos - lineStart + 1 });
   const fail = (loc: SourceLoc, message: string): never => {
     throw new EngineError('parse', `${fileName}:${loc.line}:${loc.column}: ${message}`, { loc });
