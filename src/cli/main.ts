@@ -15,11 +15,12 @@ import type { LintResult } from '../engine/lint';
 import type { DelayTable, Design, PortMap } from '../engine/model';
 import { prepareAdder, type PreparedAdder } from '../engine/pipeline';
 import { parsePortMap } from '../engine/ports';
-import { runVectors } from '../engine/adder';
 import { searchSlowest, type TimingReport } from '../engine/slowest';
 import { parseVectors } from '../engine/vectors';
 import { writeVerilog } from '../engine/verilog/write';
 import { simulateAdderVcd } from '../engine/vcd';
+import { isMainThread } from 'node:worker_threads';
+import { serveShard, simulateInParallel } from './parallel-sim';
 import { parseCli, UsageError, USAGE, type CliArgs } from './args';
 import { formatLint, formatSim, formatTiming, hex, pathJson } from './format';
 
@@ -91,7 +92,7 @@ function runLint(args: CliArgs): Output {
   return { json: () => lintJson(result), text: () => formatLint(result) };
 }
 
-function runSim(args: CliArgs): Output {
+async function runSim(args: CliArgs): Promise<Output> {
   const { adder } = prepare(args);
   const vectors = parseVectors(readText(args.vectors!, 'vectors'), args.vectors!, {
     width: adder.ports.width,
@@ -104,7 +105,7 @@ function runSim(args: CliArgs): Output {
     writeText(args.vcd, traced.vcd);
     steps = traced.steps;
   } else {
-    steps = runVectors(adder.compiled, adder.ports, vectors, { mode });
+    steps = await simulateInParallel(import.meta.url, adder.design, { ...options(args), mode }, vectors);
   }
   return {
     json: () => ({
@@ -176,7 +177,7 @@ function runGenerate(args: CliArgs): Output {
   return { json: () => ({ out: args.out, top: design.top }), text: () => `wrote ${args.out} (top ${design.top})` };
 }
 
-const COMMAND_RUNNERS: Record<CliArgs['command'], (args: CliArgs) => Output> = {
+const COMMAND_RUNNERS: Record<CliArgs['command'], (args: CliArgs) => Output | Promise<Output>> = {
   lint: runLint,
   sim: runSim,
   timing: runTiming,
@@ -189,7 +190,7 @@ function printJson(value: unknown): void {
   process.stdout.write(JSON.stringify(value) + '\n');
 }
 
-export function main(argv: string[]): number {
+export async function main(argv: string[]): Promise<number> {
   if (argv.includes('--help') || argv.includes('-h')) {
     process.stdout.write(USAGE + '\n');
     return 0;
@@ -198,7 +199,7 @@ export function main(argv: string[]): number {
   try {
     const args = parseCli(argv);
     json = args.json;
-    const out = COMMAND_RUNNERS[args.command](args);
+    const out = await COMMAND_RUNNERS[args.command](args);
     if (json) printJson(out.json());
     else process.stdout.write(out.text() + '\n');
     return 0;
@@ -218,4 +219,6 @@ export function main(argv: string[]): number {
   }
 }
 
-process.exitCode = main(process.argv.slice(2));
+// The same file serves as the entry of `sim`'s shard threads.
+if (isMainThread) process.exitCode = await main(process.argv.slice(2));
+else serveShard();

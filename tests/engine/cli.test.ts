@@ -15,7 +15,7 @@ const dir = mkdtempSync(join(tmpdir(), 'skiplane-cli-'));
 
 function skiplane(...args: string[]) {
   // The launcher behind `npm run skiplane` (bundles src/cli and src/engine when they change).
-  const r = spawnSync(process.execPath, [join(root, 'scripts/skiplane.mjs'), ...args], { cwd: dir, encoding: 'utf8' });
+  const r = spawnSync(process.execPath, [join(root, 'scripts/skiplane.mjs'), ...args], { cwd: dir, encoding: 'utf8', maxBuffer: 1 << 28 });
   return { code: r.status, stdout: r.stdout, stderr: r.stderr };
 }
 
@@ -101,6 +101,31 @@ describe('skiplane sim', () => {
     const r = skiplane('sim', 'ripple4.json', '--vectors', 'vectors4.txt', '--transport', '--delays', 'skewed.json');
     expectUsageError(r, /transport/i);
     expect(r.stderr).toMatch(/fa0/);
+  });
+});
+
+describe('skiplane sim on many vectors (shared out over threads)', () => {
+  it('gives exactly the steps of one sequential run', async () => {
+    const { generateAdder } = await import('../../src/engine/generate');
+    const { prepareAdder } = await import('../../src/engine/pipeline');
+    const { runVectors } = await import('../../src/engine/adder');
+    const { SeededRandom, randomVector } = await import('../../src/engine/random');
+    const { PARALLEL_MIN_VECTORS } = await import('../../src/cli/parallel-sim');
+    const rng = new SeededRandom(5);
+    const vectors = Array.from({ length: PARALLEL_MIN_VECTORS + 5001 }, () => randomVector(rng, 8, true));
+    writeFileSync(join(dir, 'many.txt'), vectors.map((v) => `0x${v.a.toString(16)} ${v.b} ${v.cin}`).join('\n'));
+    const r = skiplane('sim', 'skip8.v', '--vectors', 'many.txt', '--json');
+    expect(r.code).toBe(0);
+    const { steps } = JSON.parse(r.stdout);
+    const adder = prepareAdder(generateAdder({ arch: 'skip', width: 8, block: 4 })).adder!;
+    const sequential = runVectors(adder.compiled, adder.ports, vectors);
+    expect(steps).toHaveLength(vectors.length);
+    steps.forEach((s: { sum: string; settle: number; lastEvent: number; outputChanges: number }, i: number) => {
+      const want = sequential[i];
+      if (BigInt(s.sum) !== want.sum || s.settle !== want.settle || s.lastEvent !== want.lastEvent || s.outputChanges !== want.outputChanges) {
+        expect({ i, ...s }).toEqual({ i, sum: '0x' + want.sum.toString(16), settle: want.settle, lastEvent: want.lastEvent, outputChanges: want.outputChanges });
+      }
+    });
   });
 });
 
