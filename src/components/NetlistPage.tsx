@@ -5,8 +5,9 @@ import { createColumnHelper } from '@tanstack/react-table';
 import { useEffect, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { z } from 'zod';
-import { MAX_REVISION_BYTES, netlistDescription, netlistName, runKind, runPlace, seedText } from '../lib/rules';
+import { MAX_REVISION_BYTES, runKind, runPlace, seedText, type NetlistKind } from '../lib/rules';
 import { api } from './api';
+import { NetlistForm, type NetlistFormValues } from './NetlistForm';
 import { DataTable } from './DataTable';
 import { bits, bytes, delay, hash, rev, utc } from './format';
 import type { NetlistRow } from './ProjectOverview';
@@ -210,14 +211,11 @@ function RevisionDetail({ revisionId, netlistId, role, meId }: { revisionId: str
   );
 }
 
-const editForm = z.object({ name: netlistName, description: netlistDescription });
-
 function NetlistHeader({ n }: { n: Netlist }) {
   const qc = useQueryClient();
   const [editing, setEditing] = useState(false);
-  const { register, handleSubmit, formState } = useForm({ resolver: zodResolver(editForm), values: { name: n.name, description: n.description } });
   const save = useMutation({
-    mutationFn: (v: z.infer<typeof editForm>) => api(`/api/netlists/${n.id}`, { method: 'PATCH', json: v }),
+    mutationFn: (v: NetlistFormValues) => api(`/api/netlists/${n.id}`, { method: 'PATCH', json: v }),
     onSuccess: async () => {
       setEditing(false);
       await qc.invalidateQueries({ queryKey: ['netlist', n.id] });
@@ -238,21 +236,15 @@ function NetlistHeader({ n }: { n: Netlist }) {
         <span className="mono">{n.name}</span>
       </nav>
       {editing ? (
-        <form onSubmit={handleSubmit((v) => save.mutate(v))} className="panel grid gap-3 p-3 md:grid-cols-[1fr_2fr_auto]" noValidate>
-          <Field label="Name" error={formState.errors.name}>
-            <input className="field mono" {...register('name')} />
-          </Field>
-          <Field label="Description" error={formState.errors.description}>
-            <input className="field" {...register('description')} />
-          </Field>
-          <div className="flex items-end gap-2">
-            <button className="btn btn-primary">Save</button>
-            <button type="button" className="btn" onClick={() => setEditing(false)}>
-              Cancel
-            </button>
-          </div>
-          {save.error && <Notice tone="bad">{save.error.message}</Notice>}
-        </form>
+        <NetlistForm
+          className="panel"
+          initial={{ name: n.name, width: n.width, kind: n.kind as NetlistKind, description: n.description }}
+          submitLabel="Save"
+          pending={save.isPending}
+          error={save.error}
+          onSubmit={(v) => save.mutate(v)}
+          onCancel={() => setEditing(false)}
+        />
       ) : (
         <div className="flex flex-wrap items-start gap-3">
           <div className="min-w-0 flex-1">
@@ -268,7 +260,7 @@ function NetlistHeader({ n }: { n: Netlist }) {
           {editable && (
             <>
               <button className="btn" onClick={() => setEditing(true)}>
-                Rename
+                Edit
               </button>
               <button className="btn btn-danger" onClick={() => confirm(`Delete netlist ${n.name} and all its revisions and runs?`) && del.mutate()}>
                 Delete

@@ -5,8 +5,9 @@ import { createColumnHelper } from '@tanstack/react-table';
 import { useEffect, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { z } from 'zod';
-import { email, NETLIST_KINDS, netlistDescription, netlistKind, netlistName, netlistWidth, projectDescription, projectName, role, ROLES } from '../lib/rules';
+import { email, projectDescription, projectName, role, ROLES } from '../lib/rules';
 import { api } from './api';
+import { NetlistForm, type NetlistFormValues } from './NetlistForm';
 import { DataTable } from './DataTable';
 import { ago, bits, delay, hash, rev, utc } from './format';
 import { withQuery } from './query';
@@ -141,59 +142,25 @@ const auditColumns = [
   au.accessor((e) => describe(e), { id: 'what', header: 'What' }),
 ];
 
-// Form fields arrive as strings; the width is coerced, then held to the API's rule.
-const netlistForm = z.object({
-  name: netlistName,
-  width: z.coerce.number<string>({ error: 'Width must be a number of bits' }).pipe(netlistWidth),
-  kind: netlistKind,
-  description: netlistDescription,
-});
-
 function NewNetlistForm({ projectId, onDone }: { projectId: string; onDone: () => void }) {
   const qc = useQueryClient();
-  const { register, handleSubmit, formState } = useForm<z.input<typeof netlistForm>, unknown, z.output<typeof netlistForm>>({
-    resolver: zodResolver(netlistForm),
-    defaultValues: { name: '', width: '16', kind: 'ripple-carry', description: '' },
-  });
   const create = useMutation({
-    mutationFn: (v: z.output<typeof netlistForm>) => api(`/api/projects/${projectId}/netlists`, { method: 'POST', json: v }),
+    mutationFn: (v: NetlistFormValues) => api(`/api/projects/${projectId}/netlists`, { method: 'POST', json: v }),
     onSuccess: async () => {
       await qc.invalidateQueries({ queryKey: ['project', projectId] });
       onDone();
     },
   });
   return (
-    <form onSubmit={handleSubmit((v) => create.mutate(v))} className="grid gap-3 border-b border-line p-3 md:grid-cols-[1.2fr_0.6fr_0.8fr_2fr_auto]" noValidate>
-      <Field label="Name" error={formState.errors.name}>
-        <input className="field mono" {...register('name')} placeholder="acc-skip-16" autoFocus />
-      </Field>
-      <Field label="Width (bits)" error={formState.errors.width}>
-        <input className="field mono" inputMode="numeric" {...register('width')} />
-      </Field>
-      <Field label="Architecture" error={formState.errors.kind}>
-        <select className="field" {...register('kind')}>
-          {NETLIST_KINDS.map((k) => (
-            <option key={k}>{k}</option>
-          ))}
-        </select>
-      </Field>
-      <Field label="Description (optional)" error={formState.errors.description}>
-        <input className="field" {...register('description')} />
-      </Field>
-      <div className="flex items-end gap-2">
-        <button className="btn btn-primary" disabled={create.isPending}>
-          Create netlist
-        </button>
-        <button type="button" className="btn" onClick={onDone}>
-          Cancel
-        </button>
-      </div>
-      {create.error && (
-        <div className="md:col-span-5">
-          <Notice tone="bad">{create.error.message}</Notice>
-        </div>
-      )}
-    </form>
+    <NetlistForm
+      className="border-b border-line"
+      initial={{ name: '', width: 16, kind: 'ripple-carry', description: '' }}
+      submitLabel="Create netlist"
+      pending={create.isPending}
+      error={create.error}
+      onSubmit={(v) => create.mutate(v)}
+      onCancel={onDone}
+    />
   );
 }
 
