@@ -12,7 +12,7 @@
  * once per block.
  */
 import { EngineError } from './errors';
-import type { Bit, Cell, DelayTable, Design, Instance, Module, NetDecl, Signal } from './model';
+import type { Bit, Cell, DelayTable, Design, Instance, Module, NetDecl, PortDecl, Signal } from './model';
 
 export const MAX_WIDTH = 128;
 
@@ -102,18 +102,23 @@ function gate(name: string, kind: Cell['kind'], inputs: Signal, y: Bit): Cell {
   return { name, kind, pins };
 }
 
+/** Ports a, b, carry-in, s, carry-out in that order, as every generated module has them. */
+function adderPorts(carryIn: string, carryOut: string): PortDecl[] {
+  return [
+    { name: 'a', direction: 'input' },
+    { name: 'b', direction: 'input' },
+    { name: carryIn, direction: 'input' },
+    { name: 's', direction: 'output' },
+    { name: carryOut, direction: 'output' },
+  ];
+}
+
 function rippleModule(name: string, width: number): Module {
   const nets: NetDecl[] = [bus('a', width), bus('b', width), scalar('cin'), bus('s', width), scalar('cout')];
   if (width > 1) nets.push({ name: 'c', range: { msb: width - 1, lsb: 1 } });
   return {
     name,
-    ports: [
-      { name: 'a', direction: 'input' },
-      { name: 'b', direction: 'input' },
-      { name: 'cin', direction: 'input' },
-      { name: 's', direction: 'output' },
-      { name: 'cout', direction: 'output' },
-    ],
+    ports: adderPorts('cin', 'cout'),
     nets,
     cells: fullAdderChain(width, 'a', 'b', bit('cin'), 's', 'c', bit('cout')),
     instances: [],
@@ -132,13 +137,7 @@ function skipBlockModule(m: number): Module {
   cells.push({ name: 'skip', kind: 'mux2', pins: { d0: [bit('rc')], d1: [bit('ci')], s: [bit('bp')], y: [bit('co')] } });
   return {
     name: `skip_block${m}`,
-    ports: [
-      { name: 'a', direction: 'input' },
-      { name: 'b', direction: 'input' },
-      { name: 'ci', direction: 'input' },
-      { name: 's', direction: 'output' },
-      { name: 'co', direction: 'output' },
-    ],
+    ports: adderPorts('ci', 'co'),
     nets,
     cells,
     instances: [],
@@ -170,13 +169,7 @@ function skipTopModule(name: string, width: number, sizes: number[]): Module {
   });
   return {
     name,
-    ports: [
-      { name: 'a', direction: 'input' },
-      { name: 'b', direction: 'input' },
-      { name: 'cin', direction: 'input' },
-      { name: 's', direction: 'output' },
-      { name: 'cout', direction: 'output' },
-    ],
+    ports: adderPorts('cin', 'cout'),
     nets,
     cells: [],
     instances,
