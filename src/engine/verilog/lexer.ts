@@ -23,16 +23,13 @@ export interface Token {
   loc: SourceLoc;
 }
 
-/** Longest first, so `~^` wins over `~`. */
-const PUNCTUATION = [
-  '~^', '^~', '~&', '~|', '&&', '||', '==', '!=', '<=', '>=', '<<', '>>', '**',
-  '(', ')', '[', ']', '{', '}', ',', ';', ':', '.', '#', '=', '?', '~', '&', '|', '^',
-  '!', '+', '-', '*', '/', '%', '<', '>', '@',
-];
+/** Operators and punctuation; two-character ones are tried first, so `~^` wins over `~`. */
+const PUNCT_TWO = new Set(['~^', '^~', '~&', '~|', '&&', '||', '==', '!=', '<=', '>=', '<<', '>>', '**']);
+const PUNCT_ONE = new Set(['(', ')', '[', ']', '{', '}', ',', ';', ':', '.', '#', '=', '?', '~', '&', '|', '^', '!', '+', '-', '*', '/', '%', '<', '>', '@']);
 
-const isIdentStart = (c: string) => /[A-Za-z_]/.test(c);
-const isIdentChar = (c: string) => /[A-Za-z0-9_$]/.test(c);
+const isIdentStart = (c: string) => (c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z') || c === '_';
 const isDigit = (c: string) => c >= '0' && c <= '9';
+const isIdentChar = (c: string) => isIdentStart(c) || isDigit(c) || c === '$';
 const isSpace = (c: string) => c === ' ' || c === '\t' || c === '\n' || c === '\r' || c === '\f' || c === '\v';
 
 export function describeToken(t: Token): string {
@@ -51,120 +48,126 @@ export function describeToken(t: Token): string {
   }
 }
 
-export function lexVerilog(text: string, fileName: string): Token[] {
-  const tokens: Token[] = [];
-  let pos = text.startsWith('\uFEFF') ? 1 : 0; // a byte order mark, as some editors save files
-  let line = 1;
-  let lineStart = pos;
-  const here = (): SourceLoc => ({ line, column: pos - lineStart + 1 });
-  const fail = (loc: SourceLoc, message: string): never => {
-    throw new EngineError('parse', `${fileName}:${loc.line}:${loc.column}: ${message}`, { loc });
-  };
+/**
+ * Hands out tokens one at a time, so a large netlist never exists as one
+ * big token array.
+ */
+export class Lexer {
+  private pos: number;
+  private line = 1;
+  private lineStart: number;
+
+  constructor(
+    private readonly text: string,
+    private readonly fileName: string,
+  ) {
+    this.pos = text.startsWith('\uFEFF') ? 1 : 0; // a byte order mark, as some editors save files
+    this.lineStart = this.pos;
+  }
+
+  private here(): SourceLoc {
+    return { line: this.line, column: this.pos - this.lineStart + 1 };
+  }
+
+  fail(loc: SourceLoc, message: string): never {
+    throw new EngineError('parse', `${this.fileName}:${loc.line}:${loc.column}: ${message}`, { loc });
+  }
+
   /** Advance over text[pos, end), keeping line and column right. */
-  const advanceTo = (end: number) => {
-    for (; pos < end; pos++) {
-      if (text[pos] === '\n') {
-        line++;
-        lineStart = pos + 1;
+  private advanceTo(end: number): void {
+    const { text } = this;
+    for (; this.pos < end; this.pos++) {
+      if (text[this.pos] === '\n') {
+        this.line++;
+        this.lineStart = this.pos + 1;
       }
     }
-  };
-
-  while (pos < text.length) {
-    const c = text[pos];
-    if (isSpace(c)) {
-      advanceTo(pos + 1);
-      continue;
-    }
-    const loc = here();
-    if (text.startsWith('//', pos)) {
-      const end = text.indexOf('\n', pos);
-      advanceTo(end < 0 ? text.length : end);
-      continue;
-    }
-    if (text.startsWith('/*', pos)) {
-      const end = text.indexOf('*/', pos + 2);
-      if (end < 0) fail(loc, "comment '/*' is never closed; add '*/'");
-      advanceTo(end + 2);
-      continue;
-    }
-    if (isIdentStart(c)) {
-      let end = pos + 1;
-      while (end < text.length && isIdentChar(text[end])) end++;
-      tokens.push({ kind: 'ident', text: text.slice(pos, end), loc });
-      advanceTo(end);
-      continue;
-    }
-    if (c === '\\') {
-      // Escaped identifier: everything up to white space (IEEE 1364 §3.7.1).
-      let end = pos + 1;
-      while (end < text.length && !isSpace(text[end])) end++;
-      if (end === pos + 1) fail(loc, "expected an escaped identifier after '\\'");
-      tokens.push({ kind: 'ident', text: text.slice(pos + 1, end), loc, escaped: true });
-      advanceTo(end);
-      continue;
-    }
-    if (c === '`') {
-      const end = text.indexOf('\n', pos);
-      const stop = end < 0 ? text.length : end;
-      tokens.push({ kind: 'directive', text: text.slice(pos, stop).replace(/\/\/.*$/, '').trim(), loc });
-      advanceTo(stop);
-      continue;
-    }
-    if (isDigit(c) || c === "'") {
-      advanceTo(lexNumber(text, pos, loc, tokens, fail));
-      continue;
-    }
-    if (c === '"') fail(loc, 'strings are not part of structural Verilog');
-    const punct = PUNCTUATION.find((p) => text.startsWith(p, pos));
-    if (!punct) fail(loc, `unexpected character ${JSON.stringify(c)}`);
-    tokens.push({ kind: 'punct', text: punct!, loc });
-    advanceTo(pos + punct!.length);
   }
-  tokens.push({ kind: 'eof', text: '', loc: here() });
-  return tokens;
+
+  next(): Token {
+    const { text } = this;
+    for (;;) {
+      const pos = this.pos;
+      if (pos >= text.length) return { kind: 'eof', text: '', loc: this.here() };
+      const c = text[pos];
+      if (isSpace(c)) {
+        this.advanceTo(pos + 1);
+        continue;
+      }
+      const loc = this.here();
+      if (text.startsWith('//', pos)) {
+        const end = text.indexOf('\n', pos);
+        this.advanceTo(end < 0 ? text.length : end);
+        continue;
+      }
+      if (text.startsWith('/*', pos)) {
+        const end = text.indexOf('*/', pos + 2);
+        if (end < 0) this.fail(loc, "comment '/*' is never closed; add '*/'");
+        this.advanceTo(end + 2);
+        continue;
+      }
+      if (isIdentStart(c)) {
+        let end = pos + 1;
+        while (end < text.length && isIdentChar(text[end])) end++;
+        this.pos = end; // identifiers hold no line break
+        return { kind: 'ident', text: text.slice(pos, end), loc };
+      }
+      if (c === '\\') {
+        // Escaped identifier: everything up to white space (IEEE 1364 §3.7.1).
+        let end = pos + 1;
+        while (end < text.length && !isSpace(text[end])) end++;
+        if (end === pos + 1) this.fail(loc, "expected an escaped identifier after '\\'");
+        this.advanceTo(end);
+        return { kind: 'ident', text: text.slice(pos + 1, end), loc, escaped: true };
+      }
+      if (c === '`') {
+        const end = text.indexOf('\n', pos);
+        const stop = end < 0 ? text.length : end;
+        this.advanceTo(stop);
+        return { kind: 'directive', text: text.slice(pos, stop).replace(/\/\/.*$/, '').trim(), loc };
+      }
+      if (isDigit(c) || c === "'") {
+        const { token, end } = lexNumber(text, pos, loc, this);
+        this.advanceTo(end);
+        return token;
+      }
+      if (c === '"') this.fail(loc, 'strings are not part of structural Verilog');
+      const two = text.substr(pos, 2);
+      const punct = PUNCT_TWO.has(two) ? two : PUNCT_ONE.has(c) ? c : this.fail(loc, `unexpected character ${JSON.stringify(c)}`);
+      this.pos += punct.length; // punctuation holds no line break
+      return { kind: 'punct', text: punct, loc };
+    }
+  }
 }
 
 /**
  * A decimal number (`12`, `1.5`) or a based constant with an optional size
- * (`4'b1010`, `8 'h f_f`, `'d3`; IEEE 1364 §3.5.1). Returns the end position.
+ * (`4'b1010`, `8 'h f_f`, `'d3`; IEEE 1364 §3.5.1), and where it ends.
  */
-function lexNumber(
-  text: string,
-  start: number,
-  loc: SourceLoc,
-  tokens: Token[],
-  fail: (loc: SourceLoc, message: string) => never,
-): number {
-  let pos = start;
-  const skipDigits = (ok: (c: string) => boolean) => {
-    while (pos < text.length && ok(text[pos])) pos++;
-  };
-  skipDigits((ch) => isDigit(ch) || ch === '_');
-  let afterSize = pos;
-  while (afterSize < text.length && (text[afterSize] === ' ' || text[afterSize] === '\t')) afterSize++;
+function lexNumber(text: string, start: number, loc: SourceLoc, lexer: Lexer): { token: Token; end: number } {
+  let pos = skipWhile(text, start, isDecimalDigit);
+  const afterSize = skipWhile(text, pos, isBlank);
   if (text[afterSize] !== "'") {
-    if (text[pos] === '.' && isDigit(text[pos + 1] ?? '')) {
-      pos++;
-      skipDigits(isDigit);
-    }
-    tokens.push({ kind: 'number', text: text.slice(start, pos), loc });
-    return pos;
+    if (text[pos] === '.' && isDigit(text[pos + 1] ?? '')) pos = skipWhile(text, pos + 1, isDigit);
+    return { token: { kind: 'number', text: text.slice(start, pos), loc }, end: pos };
   }
   pos = afterSize + 1;
   if (text[pos] === 's' || text[pos] === 'S') pos++;
   const base = (text[pos] ?? '').toLowerCase();
-  if (!'bodh'.includes(base) || base === '') {
-    fail(loc, "expected a base letter (b, o, d or h) after ' in a constant");
-  }
-  pos++;
-  while (pos < text.length && (text[pos] === ' ' || text[pos] === '\t')) pos++;
-  const digitsStart = pos;
-  skipDigits((ch) => /[0-9a-fA-F_xXzZ?]/.test(ch));
-  if (pos === digitsStart) fail(loc, `expected digits after '${base} in a constant`);
-  tokens.push({ kind: 'based', text: text.slice(start, pos).replace(/\s+/g, ''), loc });
+  if (base === '' || !'bodh'.includes(base)) lexer.fail(loc, "expected a base letter (b, o, d or h) after ' in a constant");
+  const digitsStart = skipWhile(text, pos + 1, isBlank);
+  pos = skipWhile(text, digitsStart, isBasedDigit);
+  if (pos === digitsStart) lexer.fail(loc, `expected digits after '${base} in a constant`);
+  return { token: { kind: 'based', text: text.slice(start, pos).replace(/\s+/g, ''), loc }, end: pos };
+}
+
+function skipWhile(text: string, pos: number, ok: (c: string) => boolean): number {
+  while (pos < text.length && ok(text[pos])) pos++;
   return pos;
 }
+const isDecimalDigit = (c: string) => isDigit(c) || c === '_';
+const isBlank = (c: string) => c === ' ' || c === '\t';
+const isBasedDigit = (c: string) => /[0-9a-fA-F_xXzZ?]/.test(c);
 
 /** A constant's value and width (null when unsized, i.e. 32 bits in Verilog). */
 export interface ConstValue {

@@ -9,7 +9,7 @@ import { EngineError } from '../errors';
 import { GATE_KINDS, type Delay, type Design, type GateKind, type SourceLoc } from '../model';
 import type { Operand, RawAssign, RawDecl, RawExpr, RawGate, RawInstance, RawModule } from './ast';
 import { elaborate } from './elaborate';
-import { constValue, describeToken, lexVerilog, type Token } from './lexer';
+import { constValue, describeToken, Lexer, type Token } from './lexer';
 
 export interface ParseVerilogOptions {
   /** The top module, when the file does not make it clear (several uninstanced modules). */
@@ -17,7 +17,7 @@ export interface ParseVerilogOptions {
 }
 
 export function parseVerilog(text: string, fileName = 'input.v', opts: ParseVerilogOptions = {}): Design {
-  const parser = new Parser(lexVerilog(text, fileName), fileName);
+  const parser = new Parser(new Lexer(text, fileName), fileName);
   const { modules, timescale } = parser.parseFile();
   return elaborate(modules, { fileName, timescale, top: opts.top });
 }
@@ -41,28 +41,33 @@ const OWN_KEYWORDS = new Set(['module', 'endmodule', 'input', 'output', 'wire', 
 const UNSUPPORTED_OPERATORS = new Set(['+', '-', '*', '/', '%', '**', '<<', '>>', '<', '>', '<=', '>=', '==', '!=', '&&', '||', '!', '~&', '~|']);
 
 const MAX_NESTING = 256;
+/** Keeps a typo like `[99999999:0]` from exhausting memory. */
+const MAX_BUS_WIDTH = 1 << 20;
 
 /** A time scale, `1ps/1ps` (IEEE 1364 §19.8); the native JSON also accepts the unit alone, `1ps`. */
 export const TIMESCALE = /^(1|10|100)(s|ms|us|ns|ps|fs)(\/(1|10|100)(s|ms|us|ns|ps|fs))?$/;
 
 class Parser {
-  private pos = 0;
+  /** Tokens looked at but not consumed yet (at most two). */
+  private readonly ahead: Token[] = [];
+  private previous: Token | null = null;
   private depth = 0;
 
   constructor(
-    private readonly tokens: Token[],
+    private readonly lexer: Lexer,
     private readonly fileName: string,
   ) {}
 
   // ---- token helpers ----
 
   private peek(offset = 0): Token {
-    return this.tokens[Math.min(this.pos + offset, this.tokens.length - 1)];
+    while (this.ahead.length <= offset) this.ahead.push(this.lexer.next());
+    return this.ahead[offset];
   }
 
   private next(): Token {
     const t = this.peek();
-    if (t.kind !== 'eof') this.pos++;
+    if (t.kind !== 'eof') this.previous = this.ahead.shift()!;
     return t;
   }
 
@@ -80,7 +85,7 @@ class Parser {
 
   private acceptPunct(text: string): boolean {
     if (!this.isPunct(text)) return false;
-    this.pos++;
+    this.next();
     return true;
   }
 
@@ -121,7 +126,7 @@ class Parser {
   private expectInteger(what: string): number {
     const t = this.peek();
     if (t.kind !== 'number' || !/^[0-9_]+$/.test(t.text)) this.expected(what);
-    this.pos++;
+    this.next();
     const n = Number(t.text.replace(/_/g, ''));
     if (!Number.isSafeInteger(n) || n > 1_000_000) this.fail(t.loc, `${t.text} is too large for ${what}`);
     return n;
@@ -232,7 +237,7 @@ class Parser {
     this.expectPunct(':', 'in the range [msb:lsb]');
     const lsb = this.expectInteger('the least significant index of the range');
     this.expectPunct(']', 'to close the range');
-    if (Math.abs(msb - lsb) >= 65536) this.fail(this.peek(-1).loc, 'a bus is at most 65536 bits wide');
+    if (Math.abs(msb - lsb) >= MAX_BUS_WIDTH) this.fail(this.previous!.loc, `a bus is at most ${MAX_BUS_WIDTH} bits wide`);
     return { msb, lsb };
   }
 
@@ -325,7 +330,7 @@ class Parser {
   private delayValue(): number {
     const t = this.peek();
     if (t.kind !== 'number') this.expected('a delay (a number)', "after '#'");
-    this.pos++;
+    this.next();
     return Number(t.text.replace(/_/g, ''));
   }
 
@@ -410,14 +415,14 @@ class Parser {
   private operand(what: string): Operand {
     const t = this.peek();
     if (t.kind === 'number' || t.kind === 'based') {
-      this.pos++;
+      this.next();
       const value = constValue(t);
       if (typeof value === 'string') this.fail(t.loc, value);
       return { k: 'const', value, text: t.text, loc: t.loc };
     }
     if (this.isPunct('{')) return this.concatenation();
     if (!this.isName()) this.expected(what);
-    this.pos++;
+    this.next();
     if (!this.acceptPunct('[')) return { k: 'ref', name: t.text, loc: t.loc };
     const first = this.expectInteger(`a bit index of '${t.text}'`);
     if (this.isPunct('+') || this.isPunct('-')) this.fail(this.peek().loc, "indexed part selects (+: and -:) are not supported; write [msb:lsb]");
