@@ -1,16 +1,13 @@
 /** Screen 1, Projects: every project you belong to, and a form to start one. */
-import { zodResolver } from '@hookform/resolvers/zod';
-import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { useMutation, useQuery } from '@tanstack/react-query';
 import { createColumnHelper } from '@tanstack/react-table';
 import { useState } from 'react';
-import { useForm } from 'react-hook-form';
-import { z } from 'zod';
-import { projectDescription, projectName } from '../lib/rules';
 import { api } from './api';
+import { ProjectForm, type ProjectFormValues } from './ProjectForm';
 import { DataTable } from './DataTable';
 import { ago, utc } from './format';
 import { withQuery } from './query';
-import { ErrorText, Field, Loading, Notice, Panel, RoleChip } from './ui';
+import { ErrorText, Loading, Panel, RoleChip } from './ui';
 
 export interface ProjectRow {
   id: string;
@@ -46,42 +43,21 @@ const columns = [
   col.accessor('role', { header: 'Your role', cell: (c) => <RoleChip role={c.getValue()} /> }),
 ];
 
-const newProject = z.object({ name: projectName, description: projectDescription });
-
 function NewProjectForm({ onDone }: { onDone: () => void }) {
-  const qc = useQueryClient();
-  const { register, handleSubmit, formState, reset } = useForm({ resolver: zodResolver(newProject), defaultValues: { name: '', description: '' } });
   const create = useMutation({
-    mutationFn: (v: z.infer<typeof newProject>) => api<{ project: { id: string } }>('/api/projects', { method: 'POST', json: v }),
-    onSuccess: async ({ project }) => {
-      await qc.invalidateQueries({ queryKey: ['projects'] });
-      reset();
-      onDone();
-      window.location.assign(`/projects/${project.id}`);
-    },
+    mutationFn: (v: ProjectFormValues) => api<{ project: { id: string } }>('/api/projects', { method: 'POST', json: v }),
+    onSuccess: ({ project }) => window.location.assign(`/projects/${project.id}`),
   });
   return (
-    <form onSubmit={handleSubmit((v) => create.mutate(v))} className="grid gap-3 border-b border-line p-3 md:grid-cols-[1fr_2fr_auto]" noValidate>
-      <Field label="Project name" error={formState.errors.name}>
-        <input className="field" {...register('name')} autoFocus />
-      </Field>
-      <Field label="Description (optional)" error={formState.errors.description}>
-        <input className="field" {...register('description')} />
-      </Field>
-      <div className="flex items-end gap-2">
-        <button className="btn btn-primary" disabled={create.isPending}>
-          Create project
-        </button>
-        <button type="button" className="btn" onClick={onDone}>
-          Cancel
-        </button>
-      </div>
-      {create.error && (
-        <div className="md:col-span-3">
-          <Notice tone="bad">{create.error.message}</Notice>
-        </div>
-      )}
-    </form>
+    <ProjectForm
+      className="border-b border-line"
+      initial={{ name: '', description: '' }}
+      submitLabel="Create project"
+      pending={create.isPending}
+      error={create.error}
+      onSubmit={(v) => create.mutate(v)}
+      onCancel={onDone}
+    />
   );
 }
 

@@ -5,8 +5,9 @@ import { createColumnHelper } from '@tanstack/react-table';
 import { useEffect, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { z } from 'zod';
-import { email, projectDescription, projectName, role, ROLES } from '../lib/rules';
+import { email, role, ROLES } from '../lib/rules';
 import { api } from './api';
+import { ProjectForm, type ProjectFormValues } from './ProjectForm';
 import { NetlistForm, type NetlistFormValues } from './NetlistForm';
 import { DataTable } from './DataTable';
 import { ago, bits, delay, hash, rev, utc } from './format';
@@ -302,17 +303,11 @@ function Members({ projectId, role, meId }: { projectId: string; role: string; m
   );
 }
 
-const renameForm = z.object({ name: projectName, description: projectDescription });
-
 function ProjectHeader({ project }: { project: Project }) {
   const qc = useQueryClient();
   const [editing, setEditing] = useState(false);
-  const { register, handleSubmit, formState } = useForm({
-    resolver: zodResolver(renameForm),
-    values: { name: project.name, description: project.description },
-  });
   const save = useMutation({
-    mutationFn: (v: z.infer<typeof renameForm>) => api(`/api/projects/${project.id}`, { method: 'PATCH', json: v }),
+    mutationFn: (v: ProjectFormValues) => api(`/api/projects/${project.id}`, { method: 'PATCH', json: v }),
     onSuccess: async () => {
       setEditing(false);
       await qc.invalidateQueries({ queryKey: ['project', project.id] });
@@ -327,23 +322,15 @@ function ProjectHeader({ project }: { project: Project }) {
   }, [project.name]);
   if (editing)
     return (
-      <form onSubmit={handleSubmit((v) => save.mutate(v))} className="panel grid gap-3 p-3 md:grid-cols-[1fr_2fr_auto]" noValidate>
-        <Field label="Project name" error={formState.errors.name}>
-          <input className="field" {...register('name')} />
-        </Field>
-        <Field label="Description" error={formState.errors.description}>
-          <input className="field" {...register('description')} />
-        </Field>
-        <div className="flex items-end gap-2">
-          <button className="btn btn-primary" disabled={save.isPending}>
-            Save
-          </button>
-          <button type="button" className="btn" onClick={() => setEditing(false)}>
-            Cancel
-          </button>
-        </div>
-        {save.error && <Notice tone="bad">{save.error.message}</Notice>}
-      </form>
+      <ProjectForm
+        className="panel"
+        initial={{ name: project.name, description: project.description }}
+        submitLabel="Save"
+        pending={save.isPending}
+        error={save.error}
+        onSubmit={(v) => save.mutate(v)}
+        onCancel={() => setEditing(false)}
+      />
     );
   return (
     <div className="flex flex-wrap items-start gap-3">
