@@ -255,22 +255,38 @@ const LINE_WIDTH = 100;
 
 /** JSON with two-space indentation, where any array or object that fits on the rest of its line stays on one line. */
 export function prettyJson(value: unknown, indent = ''): string {
-  const flat = JSON.stringify(value);
-  if (value === null || typeof value !== 'object' || indent.length + flat.length <= LINE_WIDTH) return spaced(flat, value);
+  const oneLine = inline(value, LINE_WIDTH - indent.length);
+  if (oneLine !== null) return oneLine;
   const inner = indent + '  ';
   if (Array.isArray(value)) {
-    if (value.length === 0) return '[]';
     return `[\n${value.map((v) => inner + prettyJson(v, inner)).join(',\n')}\n${indent}]`;
   }
   const entries = Object.entries(value as Record<string, unknown>).filter(([, v]) => v !== undefined);
-  if (entries.length === 0) return '{}';
   return `{\n${entries.map(([k, v]) => `${inner}${JSON.stringify(k)}: ${prettyJson(v, inner)}`).join(',\n')}\n${indent}}`;
 }
 
-/** One-line JSON with a space after `:` and `,` (re-serialized, so strings are never touched). */
-function spaced(flat: string, value: unknown): string {
-  if (value === null || typeof value !== 'object') return flat;
-  if (Array.isArray(value)) return `[${value.map((v) => spaced(JSON.stringify(v), v)).join(', ')}]`;
-  const entries = Object.entries(value as Record<string, unknown>).filter(([, v]) => v !== undefined);
-  return `{${entries.map(([k, v]) => `${JSON.stringify(k)}: ${spaced(JSON.stringify(v), v)}`).join(', ')}}`;
+/**
+ * The one-line form, `{"a": 1, "b": [1, 2]}`, or null as soon as it passes
+ * `budget` characters (so a large value is never serialized just to be measured).
+ */
+function inline(value: unknown, budget: number): string | null {
+  if (value === null || typeof value !== 'object') {
+    const text = JSON.stringify(value);
+    return text.length <= budget ? text : null;
+  }
+  const isArray = Array.isArray(value);
+  const keys = isArray ? null : Object.keys(value as object).filter((k) => (value as Record<string, unknown>)[k] !== undefined);
+  const count = isArray ? (value as unknown[]).length : keys!.length;
+  const parts: string[] = [];
+  let used = 2; // the brackets
+  for (let i = 0; i < count; i++) {
+    const key = isArray ? '' : `${JSON.stringify(keys![i])}: `;
+    const v = isArray ? (value as unknown[])[i] : (value as Record<string, unknown>)[keys![i]];
+    const part = inline(v, budget - used - key.length);
+    if (part === null) return null;
+    used += key.length + part.length + (parts.length > 0 ? 2 : 0);
+    if (used > budget) return null;
+    parts.push(key + part);
+  }
+  return isArray ? `[${parts.join(', ')}]` : `{${parts.join(', ')}}`;
 }
