@@ -40,7 +40,7 @@ describe('reviews', () => {
 
     const ok = await callJson('PATCH', `/api/reviews/${id}`, { cookie: u.reviewer.cookie, json: { state: 'approved', comment: 'Good.' } });
     expect(ok.status).toBe(200);
-    expect(ok.body.review).toMatchObject({ state: 'approved', reviewerId: u.reviewer.id, revisionNumber: 2 });
+    expect(ok.body.review).toMatchObject({ state: 'approved', reviewerId: u.reviewer.id, revisionNumber: 3 });
     expect(ok.body.review.decidedAt).toBeTruthy();
 
     expect((await callJson('PATCH', `/api/reviews/${id}`, { cookie: u.owner.cookie, json: { state: 'rejected', comment: 'changed my mind' } })).status).toBe(

@@ -66,7 +66,7 @@ const CASES: Case[] = [
     name: 'create revision',
     method: 'POST',
     path: (f) => `/api/netlists/${f.netlistId}/revisions`,
-    body: (f) => ({ content: f.content + '// r2\n', filename: 'add1.v' }),
+    body: (f) => ({ content: f.content + '// r3\n', filename: 'add1.v' }),
     allowed: EDITORS,
   },
   { name: 'read revision', method: 'GET', path: (f) => `/api/revisions/${f.revisionId}`, allowed: MEMBERS },
@@ -89,6 +89,9 @@ const CASES: Case[] = [
     body: () => ({ state: 'approved', comment: 'Settle time within budget.' }),
     allowed: ['owner', 'reviewer'],
   },
+  { name: 'request review', method: 'POST', path: (f) => `/api/revisions/${f.revision2Id}/reviews`, body: () => ({}), allowed: EDITORS },
+  // Knowing the link is what admits you to an invitation, not a role.
+  { name: 'read invitation', method: 'GET', path: (f) => `/api/invitations/${f.invitationId}`, allowed: SIGNED_IN },
   { name: 'list audit', method: 'GET', path: (f) => `/api/projects/${f.projectId}/audit`, allowed: MEMBERS },
 ];
 

@@ -4,7 +4,10 @@ import { getDb } from '../../../src/lib/db';
 import { invitations, memberships, netlists, projects, reviews, revisions, runs, type Role } from '../../../src/lib/db/schema';
 import { sha256 } from '../../../src/lib/api/revisions';
 
-/** A project with the given members, one netlist, its r1, a run, a pending invitation and an open review requested by `requesterId`. */
+/**
+ * A project with the given members, one netlist with r1 and r2, a run of r1, an open review of r1
+ * requested by `requesterId`, and a pending invitation whose token is its id.
+ */
 export async function makeProject(members: { userId: string; role: Role }[], requesterId?: string) {
   const db = await getDb();
   const now = new Date();
@@ -14,6 +17,7 @@ export async function makeProject(members: { userId: string; role: Role }[], req
   const runId = crypto.randomUUID();
   const invitationId = crypto.randomUUID();
   const reviewId = crypto.randomUUID();
+  const revision2Id = crypto.randomUUID();
   const content =
     'module add1(input a, input b, input cin, output s, output cout);\n  assign s = a ^ b ^ cin;\n  assign cout = (a & b) | (cin & (a ^ b));\nendmodule\n';
   await db.insert(projects).values({ id: projectId, name: 'Fixture ' + projectId.slice(0, 6), createdAt: now, updatedAt: now });
@@ -30,6 +34,18 @@ export async function makeProject(members: { userId: string; role: Role }[], req
     sizeBytes: content.length,
     createdAt: now,
   });
+  const content2 = content + '// r2\n';
+  await db.insert(revisions).values({
+    id: revision2Id,
+    netlistId,
+    number: 2,
+    format: 'verilog',
+    filename: 'add1.v',
+    content: content2,
+    contentHash: sha256(content2),
+    sizeBytes: content2.length,
+    createdAt: now,
+  });
   await db.insert(runs).values({ id: runId, revisionId, kind: 'equivalence', parameters: {}, engineVersion: 'test', place: 'server', createdAt: now });
   await db.insert(invitations).values({
     id: invitationId,
@@ -41,5 +57,5 @@ export async function makeProject(members: { userId: string; role: Role }[], req
     expiresAt: new Date(now.getTime() + 86400_000),
   });
   await db.insert(reviews).values({ id: reviewId, revisionId, requesterId: requesterId ?? members[0]?.userId, state: 'requested', createdAt: now });
-  return { projectId, netlistId, revisionId, runId, invitationId, reviewId, content };
+  return { projectId, netlistId, revisionId, revision2Id, runId, invitationId, reviewId, content: content2 };
 }
