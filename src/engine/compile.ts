@@ -88,6 +88,15 @@ export interface CompiledNetlist {
   code: Int32Array;
   /** Scratch stack for expression evaluation, sized for the deepest expression. */
   exprStack: Uint8Array;
+  /**
+   * Per cell with at most 3 inputs and 2 outputs (every built-in cell but
+   * wide gates): its truth table, 2 bits per input combination (output pin k
+   * in bit k), indexed by in0 | in1 << 1 | in2 << 2; -1 for other cells,
+   * which `evalCell` evaluates. One branch-free lookup for the simulator.
+   */
+  table: Int32Array;
+  /** Per cell, 3 entries: the input nets the table reads (unused entries repeat input 0, which the table ignores). */
+  tableIn: Int32Array;
   /** Cells in topological (levelized) order: every cell after the drivers of its inputs. */
   order: Int32Array;
   /** Primary input nets, top input buses in declaration order, each least significant bit first. */
@@ -182,7 +191,7 @@ export function compile(flat: FlatNetlist): CompiledNetlist {
     }
   }
 
-  return {
+  const compiled: CompiledNetlist = {
     netCount,
     cellCount,
     pinCount,
@@ -201,6 +210,8 @@ export function compile(flat: FlatNetlist): CompiledNetlist {
     codeStart,
     code: Int32Array.from(code),
     exprStack: new Uint8Array(maxDepth),
+    table: new Int32Array(cellCount).fill(-1),
+    tableIn: new Int32Array(3 * cellCount),
     order,
     inputNets: Int32Array.from(inputList),
     inputIndex,
@@ -211,6 +222,26 @@ export function compile(flat: FlatNetlist): CompiledNetlist {
     netNames: flat.netNames,
     cellNames: cells.map((cell) => cell.name),
   };
+  buildTables(compiled);
+  return compiled;
+}
+
+/** Tabulate every cell small enough (see `CompiledNetlist.table`) with `evalCell` itself, so the two cannot disagree. */
+function buildTables(c: CompiledNetlist): void {
+  const scratch = new Uint8Array(c.netCount);
+  for (let cell = 0; cell < c.cellCount; cell++) {
+    const s = c.inStart[cell];
+    const inputs = c.inStart[cell + 1] - s;
+    if (inputs > 3 || c.outStart[cell + 1] - c.outStart[cell] > 2) continue;
+    for (let k = 0; k < 3; k++) c.tableIn[3 * cell + k] = inputs === 0 ? 0 : c.inNets[s + (k < inputs ? k : 0)];
+    let table = 0;
+    for (let idx = 0; idx < 8; idx++) {
+      // Entries for combinations the cell cannot see (an unused or repeated input differing) are never read.
+      for (let k = 0; k < inputs; k++) scratch[c.inNets[s + k]] = (idx >> k) & 1;
+      table |= evalCell(c, cell, scratch) << (2 * idx);
+    }
+    c.table[cell] = table;
+  }
 }
 
 /** Input nets in the model's pin order (mux2/ha/fa by pin name; gates and expressions as listed). */
@@ -374,13 +405,14 @@ function loopError(
 }
 
 /**
- * Evaluate one output pin from the present net values. The one evaluation
- * routine of the engine (simulator and zero-delay settle). Kept small so
- * the JIT can inline it into the simulator's loop: the adder cells are
- * here, gates over a list of inputs and expressions one call further.
+ * Evaluate a cell from the present net values: bit k of the result is its
+ * output pin k (fa and ha: s, co). The one evaluation routine of the engine
+ * (simulator and zero-delay settle); a cell is read once for all its
+ * outputs. Kept small so the JIT can inline it into the simulator's loop:
+ * the adder cells are here, gates over a list of inputs and expressions
+ * one call further.
  */
-export function evalPin(c: CompiledNetlist, pin: number, values: Uint8Array): number {
-  const cell = c.pinCell[pin];
+export function evalCell(c: CompiledNetlist, cell: number, values: Uint8Array): number {
   const s = c.inStart[cell];
   const inNets = c.inNets;
   switch (c.kind[cell]) {
@@ -388,12 +420,13 @@ export function evalPin(c: CompiledNetlist, pin: number, values: Uint8Array): nu
       const a = values[inNets[s]];
       const b = values[inNets[s + 1]];
       const ci = values[inNets[s + 2]];
-      return pin === c.outStart[cell] ? a ^ b ^ ci : (a & b) | (ci & (a ^ b));
+      const x = a ^ b;
+      return (x ^ ci) | (((a & b) | (ci & x)) << 1);
     }
     case K_HA: {
       const a = values[inNets[s]];
       const b = values[inNets[s + 1]];
-      return pin === c.outStart[cell] ? a ^ b : a & b;
+      return (a ^ b) | ((a & b) << 1);
     }
     case K_MUX2:
       return values[inNets[s + 2]] ? values[inNets[s + 1]] : values[inNets[s]];
@@ -406,6 +439,12 @@ export function evalPin(c: CompiledNetlist, pin: number, values: Uint8Array): nu
     default:
       return evalGate(c.kind[cell], s, c.inStart[cell + 1], inNets, values);
   }
+}
+
+/** Evaluate one output pin from the present net values. */
+export function evalPin(c: CompiledNetlist, pin: number, values: Uint8Array): number {
+  const cell = c.pinCell[pin];
+  return (evalCell(c, cell, values) >> (pin - c.outStart[cell])) & 1;
 }
 
 /** and/or/xor and their inversions over inputs s .. e. */
@@ -477,6 +516,7 @@ export function settleValues(c: CompiledNetlist, inputs: ArrayLike<number>, valu
   const order = c.order;
   for (let k = 0; k < order.length; k++) {
     const cell = order[k];
-    for (let pin = c.outStart[cell]; pin < c.outStart[cell + 1]; pin++) values[c.outNets[pin]] = evalPin(c, pin, values);
+    const outs = evalCell(c, cell, values);
+    for (let pin = c.outStart[cell], j = 0; pin < c.outStart[cell + 1]; pin++, j++) values[c.outNets[pin]] = (outs >> j) & 1;
   }
 }

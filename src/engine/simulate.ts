@@ -18,7 +18,7 @@
  * cause is the cell's lowest-numbered input pin whose net really changed
  * at that time.
  */
-import { evalPin, settleValues, type CompiledNetlist } from './compile';
+import { evalCell, settleValues, type CompiledNetlist } from './compile';
 import { EngineError } from './errors';
 import type { PathEntry } from './flat';
 import { grown, TimingWheel } from './timing-wheel';
@@ -61,6 +61,11 @@ export interface StepResult {
 }
 
 const NONE = -1;
+/** `before` of a net not touched at the present time. */
+const UNTOUCHED = 2;
+/** `state` bits. */
+const WANT = 1;
+const PENDING = 2;
 
 export class TimingSimulator {
   /** Present value of every net. Read it; do not write it. */
@@ -75,27 +80,40 @@ export class TimingSimulator {
   private readonly recordChanges: boolean;
   private settled = false;
 
-  /** Inertial: per output pin, its pending event id or -1. */
-  private readonly pending: Int32Array;
-  /** Transport: per output pin, the last value scheduled (its present value when nothing is pending). */
-  private readonly scheduled: Uint8Array;
+  /**
+   * Per output pin, bit 0 (WANT): the value it is headed for, that is the
+   * last value scheduled (transport) or the pending value (inertial), and
+   * its present value when nothing is pending; an evaluation that gives it
+   * changes nothing. Bit 1 (PENDING, inertial): a change is pending.
+   *
+   * Inertial events need no pool: a pin has at most one pending change, so
+   * its event id is the pin itself, carrying its net (`idNet`) and new value
+   * (WANT); ids pinCount + i carry primary input i at time 0. Transport
+   * events come from the wheel's pool with their net and value.
+   */
+  private readonly state: Uint8Array;
+  private readonly idNet: Int32Array;
 
   /** Cells with a changed input in this delta step. */
   private readonly dirty: Int32Array;
-  private dirtyCount = 0;
   private readonly isDirty: Uint8Array;
 
-  /** Nets touched at the present time, with their value before it (`stamp` marks the time step). */
+  /**
+   * Per net, 1 when its changes are judged at the end of each time step: a
+   * net that may pulse within one time (zero delays), or every net when
+   * logging, so the log keeps the order of first touches. Other nets change
+   * at most once per time and are recorded as they are set.
+   */
+  private readonly deferred: Uint8Array;
+  /** Deferred nets touched at the present time, with their value before it (UNTOUCHED otherwise, so nothing is reset per step). */
   private readonly touched: Int32Array;
-  private touchedCount = 0;
   private readonly before: Uint8Array;
-  private readonly stamp: Int32Array;
-  private step = 0;
 
-  /** Observed nets: position in `observe` + 1 (0 = not observed), and changes this vector. */
+  /** Observed nets: position in `observe` + 1 (0 = not observed). */
   private readonly observedPos: Int32Array;
-  private readonly observed: Int32Array;
-  private readonly changeCount: Int32Array;
+  /** Per net: the number of the last vector that changed it (a second change in one vector is a glitch). */
+  private readonly changedIn: Int32Array;
+  private vector = 0;
 
   /** Log of real changes this vector (when recording): time, net, value, previous entry of the same net. */
   private logTime = new Int32Array(256);
@@ -113,7 +131,6 @@ export class TimingSimulator {
   private glitches = 0;
   /** Log entry of the last output change (ties at one time: the latest observed position). */
   private lastOutputLog = NONE;
-  private lastOutputPos = 0;
 
   constructor(compiled: CompiledNetlist, options: SimulatorOptions = {}) {
     this.c = compiled;
@@ -125,22 +142,26 @@ export class TimingSimulator {
     this.logging = this.recordPath || this.recordChanges;
 
     const { netCount, cellCount, pinCount } = compiled;
+    const ids = pinCount + compiled.inputNets.length;
     this.values = new Uint8Array(netCount);
-    this.wheel = new TimingWheel(compiled.maxDelay, options.ringBits, Math.max(1024, 2 * pinCount));
-    this.pending = new Int32Array(pinCount).fill(NONE);
-    this.scheduled = new Uint8Array(pinCount);
+    this.wheel = this.transport
+      ? new TimingWheel(compiled.maxDelay, options.ringBits, Math.max(1024, 2 * ids))
+      : new TimingWheel(compiled.maxDelay, options.ringBits, ids, ids);
+    this.state = new Uint8Array(ids);
+    this.idNet = new Int32Array(ids);
+    this.idNet.set(compiled.outNets);
+    this.idNet.set(compiled.inputNets, pinCount);
+    this.deferred = deferredNets(compiled, this.transport, this.logging);
     this.dirty = new Int32Array(cellCount);
     this.isDirty = new Uint8Array(cellCount);
     this.touched = new Int32Array(netCount);
-    this.before = new Uint8Array(netCount);
-    this.stamp = new Int32Array(netCount);
+    this.before = new Uint8Array(netCount).fill(UNTOUCHED);
     this.lastLog = new Int32Array(netCount).fill(NONE);
 
     const observe = options.observe ?? compiled.outputNets;
-    this.observed = Int32Array.from(observe);
     this.observedPos = new Int32Array(netCount);
-    this.observed.forEach((net, i) => (this.observedPos[net] = i + 1));
-    this.changeCount = new Int32Array(netCount);
+    for (let i = 0; i < observe.length; i++) this.observedPos[observe[i]] = i + 1;
+    this.changedIn = new Int32Array(netCount);
   }
 
   /**
@@ -151,8 +172,7 @@ export class TimingSimulator {
   settle(inputs: ArrayLike<number>): void {
     settleValues(this.c, inputs, this.values);
     this.wheel.clear();
-    this.pending.fill(NONE);
-    for (let pin = 0; pin < this.c.pinCount; pin++) this.scheduled[pin] = this.values[this.c.outNets[pin]];
+    for (let pin = 0; pin < this.c.pinCount; pin++) this.state[pin] = this.values[this.c.outNets[pin]];
     this.settled = true;
   }
 
@@ -169,146 +189,150 @@ export class TimingSimulator {
     }
     const inputNets = this.c.inputNets;
     const values = this.values;
-    this.wheel.rewind();
-    this.beginTime();
+    const wheel = this.wheel;
+    const base = this.c.pinCount;
+    wheel.rewind();
+    // Changed inputs are events at time 0, applied in input order like any other batch.
     for (let i = 0; i < inputNets.length; i++) {
       const v = inputs[i] ? 1 : 0;
-      if (values[inputNets[i]] !== v) this.setNet(inputNets[i], v);
+      const net = inputNets[i];
+      if (values[net] === v) continue;
+      if (this.transport) {
+        wheel.schedule(0, net, v);
+      } else {
+        this.state[base + i] = v | PENDING;
+        wheel.place(base + i, 0);
+      }
     }
-    this.evaluateDirty(0);
-    this.runTimeStep(0);
-    for (let t = this.wheel.advance(); t !== NONE; t = this.wheel.advance()) {
-      this.beginTime();
-      this.runTimeStep(t);
-    }
+    this.run();
     return this.result();
   }
 
-  /** Run every delta step at time t, then record the nets that really changed. */
-  private runTimeStep(t: number): void {
-    const wheel = this.wheel;
-    const pending = this.pending;
-    const outNets = this.c.outNets;
-    const values = this.values;
-    for (let ev = wheel.take(); ev !== NONE; ev = wheel.take()) {
-      // Nothing is scheduled while a batch is applied, so the pool's arrays stay put.
-      const { dead, pin: evPin, value: evValue } = wheel;
-      while (ev !== NONE) {
-        const after = wheel.nextOf(ev);
-        if (!dead[ev]) {
-          const pin = evPin[ev];
-          if (pending[pin] === ev) pending[pin] = NONE;
-          const net = outNets[pin];
-          if (values[net] !== evValue[ev]) this.setNet(net, evValue[ev]);
-        }
-        wheel.release(ev);
-        ev = after;
-      }
-      this.evaluateDirty(t);
-    }
-    this.recordChangesAt(t);
-  }
-
-  private beginTime(): void {
-    if (++this.step === 0x3fffffff) {
-      this.stamp.fill(0);
-      this.step = 1;
-    }
-  }
-
-  /** Set a net, remember its value before this time step, and mark its readers dirty. */
-  private setNet(net: number, v: number): void {
-    const values = this.values;
-    if (this.stamp[net] !== this.step) {
-      this.stamp[net] = this.step;
-      this.before[net] = values[net];
-      this.touched[this.touchedCount++] = net;
-    }
-    values[net] = v;
-    const { fanStart, fanCell } = this.c;
-    const isDirty = this.isDirty;
-    for (let f = fanStart[net], end = fanStart[net + 1]; f < end; f++) {
-      const cell = fanCell[f];
-      if (!isDirty[cell]) {
-        isDirty[cell] = 1;
-        this.dirty[this.dirtyCount++] = cell;
-      }
-    }
-  }
-
-  /** Evaluate every dirty cell at time t and schedule its output changes (SPEC §3). */
-  private evaluateDirty(t: number): void {
-    if (this.transport) this.evaluateTransport(t);
-    else this.evaluateInertial(t);
-    this.dirtyCount = 0;
-  }
-
-  /** Inertial: keep a pending change to v, cancel one to the other value, schedule v if it is new. */
-  private evaluateInertial(t: number): void {
+  /**
+   * The event loop (SPEC §3), one function with every table in a local so
+   * the JIT keeps the hot state in registers. Per time t: take the events
+   * due, apply them and mark the fan-out dirty; evaluate each dirty cell once
+   * and schedule its output changes, zero-delay ones landing in the same
+   * bucket as the next delta step; when none is left, compare each touched
+   * net with its value before t.
+   */
+  private run(): void {
     const c = this.c;
-    const { outStart, outNets, rise, fall } = c;
+    const { fanStart, fanCell, outStart, outNets, rise, fall, table, tableIn } = c;
     const wheel = this.wheel;
-    const values = this.values;
-    const dirty = this.dirty;
-    const isDirty = this.isDirty;
-    const pending = this.pending;
-    for (let i = 0, n = this.dirtyCount; i < n; i++) {
-      const cell = dirty[i];
-      isDirty[cell] = 0;
-      for (let pin = outStart[cell], end = outStart[cell + 1]; pin < end; pin++) {
-        const v = evalPin(c, pin, values);
-        const pe = pending[pin];
-        if (pe !== NONE) {
-          if (wheel.value[pe] === v) continue; // a pending change to v stays
-          wheel.dead[pe] = 1; // the glitch is swallowed
-          pending[pin] = NONE;
-        }
-        if (v !== values[outNets[pin]]) pending[pin] = wheel.schedule(t + (v ? rise[pin] : fall[pin]), pin, v);
-      }
-    }
-  }
+    const transport = this.transport;
+    const logging = this.logging;
+    const { values, state, idNet, dirty, isDirty, touched, before, deferred, observedPos, changedIn, vector } = this;
+    let dirtyCount = 0;
+    let touchedCount = 0;
+    let settle = 0;
+    let lastEvent = 0;
+    let outputChanges = 0;
+    let glitches = 0;
+    // The last output change so far (ties at one time: the latest observed position).
+    let lastOutputLog = NONE;
+    let lastOutputPos = 0;
 
-  /** Transport: schedule every new value; cancel nothing. */
-  private evaluateTransport(t: number): void {
-    const c = this.c;
-    const { outStart, rise } = c;
-    const wheel = this.wheel;
-    const values = this.values;
-    const dirty = this.dirty;
-    const isDirty = this.isDirty;
-    const scheduled = this.scheduled;
-    for (let i = 0, n = this.dirtyCount; i < n; i++) {
-      const cell = dirty[i];
-      isDirty[cell] = 0;
-      for (let pin = outStart[cell], end = outStart[cell + 1]; pin < end; pin++) {
-        const v = evalPin(c, pin, values);
-        if (v !== scheduled[pin]) {
-          scheduled[pin] = v;
-          wheel.schedule(t + rise[pin], pin, v); // rise = fall in transport mode
+    // Event ids are ≥ 0; -1 (end of list, empty queue) is written as a literal, which the JIT folds.
+    for (let t = wheel.advance(); t >= 0; t = wheel.advance()) {
+      for (let ev = wheel.take(); ev >= 0; ev = wheel.take()) {
+        // Nothing is scheduled while a batch is applied, so the wheel's arrays stay put.
+        const { next, net: evNet, value: evValue } = wheel;
+        while (ev >= 0) {
+          const after = next[ev];
+          let net: number;
+          let v: number;
+          if (transport) {
+            net = evNet[ev];
+            v = evValue[ev];
+            wheel.release(ev);
+          } else {
+            net = idNet[ev];
+            v = state[ev] & WANT;
+            state[ev] = v;
+          }
+          if (values[net] !== v) {
+            if (deferred[net] === 0) {
+              // Recorded now: the deferred record below without the log, inline because it is the hot path.
+              lastEvent = t;
+              const pos = observedPos[net];
+              if (pos !== 0) {
+                outputChanges++;
+                if (changedIn[net] === vector) glitches++;
+                else changedIn[net] = vector;
+                settle = t;
+              }
+            } else if (before[net] === UNTOUCHED) {
+              before[net] = values[net];
+              touched[touchedCount++] = net;
+            }
+            values[net] = v;
+            for (let f = fanStart[net], end = fanStart[net + 1]; f < end; f++) {
+              const cell = fanCell[f];
+              if (isDirty[cell] === 0) {
+                isDirty[cell] = 1;
+                dirty[dirtyCount++] = cell;
+              }
+            }
+          }
+          ev = after;
+        }
+
+        for (let i = 0; i < dirtyCount; i++) {
+          const cell = dirty[i];
+          isDirty[cell] = 0;
+          const tab = table[cell];
+          const j = 3 * cell;
+          let outs = tab >= 0 ? tab >> (2 * (values[tableIn[j]] | (values[tableIn[j + 1]] << 1) | (values[tableIn[j + 2]] << 2))) : evalCell(c, cell, values);
+          for (let pin = outStart[cell], end = outStart[cell + 1]; pin < end; pin++, outs >>= 1) {
+            const v = outs & 1;
+            const st = state[pin];
+            // The common case: a pending change to v stays, or v is the present value and nothing is pending.
+            if (v === (st & WANT)) continue;
+            if (transport) {
+              state[pin] = v;
+              wheel.schedule(t + rise[pin], outNets[pin], v); // rise = fall in transport mode
+            } else if (st & PENDING) {
+              // A pending change to the other value: the glitch is swallowed, v is the present value again.
+              state[pin] = v;
+              wheel.cancel(pin);
+            } else {
+              state[pin] = v | PENDING;
+              wheel.place(pin, t + (v ? rise[pin] : fall[pin]));
+            }
+          }
+        }
+        dirtyCount = 0;
+      }
+
+      // A deferred net changed at t only if its value after the last delta step differs from before t.
+      for (let i = 0; i < touchedCount; i++) {
+        const net = touched[i];
+        const was = before[net];
+        before[net] = UNTOUCHED;
+        const v = values[net];
+        if (v === was) continue;
+        lastEvent = t;
+        const entry = logging ? this.log(t, net, v) : NONE;
+        const pos = observedPos[net];
+        if (pos === 0) continue;
+        outputChanges++;
+        if (changedIn[net] === vector) glitches++;
+        else changedIn[net] = vector;
+        if (t > settle || pos > lastOutputPos) {
+          settle = t;
+          lastOutputLog = entry;
+          lastOutputPos = pos;
         }
       }
+      touchedCount = 0;
     }
-  }
 
-  /** Compare touched nets with their value before t: a difference is a change at t. */
-  private recordChangesAt(t: number): void {
-    for (let i = 0; i < this.touchedCount; i++) {
-      const net = this.touched[i];
-      const v = this.values[net];
-      if (v === this.before[net]) continue;
-      this.lastEventTime = t;
-      const entry = this.logging ? this.log(t, net, v) : NONE;
-      const pos = this.observedPos[net];
-      if (pos === 0) continue;
-      this.outputChanges++;
-      if (++this.changeCount[net] > 1) this.glitches++;
-      if (t > this.settleTime || pos > this.lastOutputPos) {
-        this.settleTime = t;
-        this.lastOutputLog = entry;
-        this.lastOutputPos = pos;
-      }
-    }
-    this.touchedCount = 0;
+    this.settleTime = settle;
+    this.lastEventTime = lastEvent;
+    this.outputChanges = outputChanges;
+    this.glitches = glitches;
+    this.lastOutputLog = lastOutputLog;
   }
 
   private log(t: number, net: number, v: number): number {
@@ -336,8 +360,10 @@ export class TimingSimulator {
     this.outputChanges = 0;
     this.glitches = 0;
     this.lastOutputLog = NONE;
-    this.lastOutputPos = 0;
-    for (let i = 0; i < this.observed.length; i++) this.changeCount[this.observed[i]] = 0;
+    if (++this.vector === 0x7fffffff) {
+      this.changedIn.fill(0);
+      this.vector = 1;
+    }
     for (let k = 0; k < this.logCount; k++) this.lastLog[this.logNet[k]] = NONE;
     this.logCount = 0;
   }
@@ -384,6 +410,23 @@ export class TimingSimulator {
     }
     return NONE;
   }
+}
+
+/**
+ * Nets that may change twice at one time (see `TimingSimulator.deferred`).
+ * Inertial: a pin has one pending change at a time, so a second change at
+ * the same time needs a zero delay on the pin itself. Transport: a pin
+ * evaluated in two delta steps schedules twice for one time, and delta
+ * steps need a zero delay anywhere.
+ */
+function deferredNets(c: CompiledNetlist, transport: boolean, logging: boolean): Uint8Array {
+  const deferred = new Uint8Array(c.netCount);
+  if (logging) return deferred.fill(1);
+  const zero = (pin: number) => c.rise[pin] === 0 || c.fall[pin] === 0;
+  let anyZero = false;
+  for (let pin = 0; pin < c.pinCount; pin++) anyZero ||= zero(pin);
+  for (let pin = 0; pin < c.pinCount; pin++) if (transport ? anyZero : zero(pin)) deferred[c.outNets[pin]] = 1;
+  return deferred;
 }
 
 /** SPEC §3: transport mode needs equal rise and fall delays on every pin; name the cells that lack them. */

@@ -6,12 +6,16 @@
  * Events further out than the ring (only when the ring was capped, for huge
  * delays) wait in an overflow list and move into the ring as time advances.
  *
- * Events live in a pool of parallel typed arrays, recycled through a free
- * list; the pool doubles when full, so steady-state scheduling allocates
- * nothing. Each bucket is a FIFO list: events due at the same time come out
- * in the order they were scheduled. A bucket is taken whole (`take`);
- * events scheduled for that same time while it is being processed form the
- * bucket's next list, which is how the simulator gets its delta steps.
+ * Events are ids into parallel typed arrays, linked into their bucket both
+ * ways so that `cancel` unlinks in O(1). Ids below `reserved` belong to the
+ * caller (the inertial simulator uses one fixed id per output pin, since a
+ * pin has at most one pending change); ids above come from a pool recycled
+ * through a free list, which doubles when full, so steady-state scheduling
+ * allocates nothing. Each bucket is a FIFO list: events due at the same
+ * time come out in the order they were scheduled. A bucket is taken whole
+ * (`take`); events scheduled for that same time while it is being
+ * processed form the bucket's next list, which is how the simulator gets
+ * its delta steps.
  */
 
 const NONE = -1;
@@ -19,63 +23,100 @@ const NONE = -1;
 const MAX_RING_BITS = 16;
 
 export class TimingWheel {
-  /** Event pool (parallel arrays indexed by event id). */
+  /** Per event: its due time; for pool events, the payload (the simulator's net and new value). */
   time: Int32Array;
-  /** Payload: the simulator stores the output pin here. */
-  pin: Int32Array;
+  net: Int32Array;
   value: Uint8Array;
-  /** 1 when the event was cancelled; it is skipped when its time comes. */
-  dead: Uint8Array;
-  private next: Int32Array;
+  /** Per event: the next one in its list (read it with `nextOf` or directly in a hot loop). */
+  next: Int32Array;
+  private prev: Int32Array;
   private freeHead = NONE;
-  private used = 0;
+  private used: number;
+  private readonly reserved: number;
 
   private readonly mask: number;
+  /** List heads and tails: one per bucket, then the overflow list. */
   private readonly head: Int32Array;
   private readonly tail: Int32Array;
-  /** Events in the ring (live or dead). */
-  private ringCount = 0;
-  private overflowHead = NONE;
-  private overflowTail = NONE;
+  private readonly overflow: number;
+  /** Latest time put in the ring since the last rewind: `advance` looks no further. */
+  private horizon = NONE;
   private overflowCount = 0;
+  /** At most the earliest overflow time (a cancel may leave it early, which is safe). */
   private overflowMin = 0;
   /** Earliest time the queue may still hold; schedules must not be earlier. */
   now = 0;
 
-  constructor(maxDelay: number, ringBits = MAX_RING_BITS, capacity = 1024) {
+  /** `reserved` ids (0 .. reserved - 1) are placed by the caller with `place`; the pool hands out the rest. */
+  constructor(maxDelay: number, ringBits = MAX_RING_BITS, capacity = 1024, reserved = 0) {
     let bits = 0;
     while (bits < ringBits && 1 << bits <= maxDelay) bits++;
     const size = 1 << bits;
     this.mask = size - 1;
-    this.head = new Int32Array(size).fill(NONE);
-    this.tail = new Int32Array(size).fill(NONE);
-    this.time = new Int32Array(capacity);
-    this.pin = new Int32Array(capacity);
-    this.value = new Uint8Array(capacity);
-    this.dead = new Uint8Array(capacity);
-    this.next = new Int32Array(capacity);
+    this.overflow = size;
+    this.head = new Int32Array(size + 1).fill(NONE);
+    this.tail = new Int32Array(size + 1).fill(NONE);
+    this.reserved = reserved;
+    this.used = reserved;
+    const n = Math.max(capacity, reserved, 1);
+    this.time = new Int32Array(n);
+    this.net = new Int32Array(n);
+    this.value = new Uint8Array(n);
+    this.next = new Int32Array(n);
+    this.prev = new Int32Array(n);
   }
 
   get size(): number {
     return this.mask + 1;
   }
 
-  /** True when no event (live or dead) is queued. */
+  /** True when no event is queued (scans the ring: for tests and checks, not hot loops). */
   get empty(): boolean {
-    return this.ringCount === 0 && this.overflowCount === 0;
+    if (this.overflowCount > 0) return false;
+    for (let t = this.now; t <= this.horizon; t++) if (this.head[t & this.mask] !== NONE) return false;
+    return true;
   }
 
-  /** Queue an event at `time` (≥ now); returns its id, valid until `release`. */
-  schedule(time: number, pin: number, value: number): number {
+  /** Queue an event from the pool at `time` (≥ now) with its payload; returns its id, valid until `release`. */
+  schedule(time: number, net: number, value: number): number {
     const ev = this.allocate();
-    this.time[ev] = time;
-    this.pin[ev] = pin;
+    this.net[ev] = net;
     this.value[ev] = value;
-    this.dead[ev] = 0;
-    this.next[ev] = NONE;
-    if (time - this.now <= this.mask) this.appendToRing(ev);
-    else this.appendToOverflow(ev);
+    this.place(ev, time);
     return ev;
+  }
+
+  /** Queue a caller-owned (reserved) or pool event at `time` (≥ now); it must not be queued already. */
+  place(ev: number, time: number): void {
+    this.time[ev] = time;
+    let s: number;
+    if (time - this.now <= this.mask) {
+      s = time & this.mask;
+      if (time > this.horizon) this.horizon = time;
+    } else {
+      s = this.overflow;
+      if (this.overflowCount++ === 0 || time < this.overflowMin) this.overflowMin = time;
+    }
+    const last = this.tail[s];
+    this.prev[ev] = last;
+    this.next[ev] = NONE;
+    if (last === NONE) this.head[s] = ev;
+    else this.next[last] = ev;
+    this.tail[s] = ev;
+  }
+
+  /** Unlink a queued event that has not been taken yet (a pool event still needs `release`). */
+  cancel(ev: number): void {
+    // Between advances, exactly the events beyond the ring's reach wait in the overflow list.
+    const time = this.time[ev];
+    const s = time - this.now > this.mask ? this.overflow : time & this.mask;
+    const p = this.prev[ev];
+    const n = this.next[ev];
+    if (p === NONE) this.head[s] = n;
+    else this.next[p] = n;
+    if (n === NONE) this.tail[s] = p;
+    else this.prev[n] = p;
+    if (s === this.overflow) this.overflowCount--;
   }
 
   /**
@@ -83,23 +124,26 @@ export class TimingWheel {
    * the queue is empty. Moves overflow events that now fit into the ring.
    */
   advance(): number {
-    let t: number;
-    if (this.ringCount > 0) {
-      t = this.now;
-      while (this.head[t & this.mask] === NONE) t++;
-    } else if (this.overflowCount > 0) {
-      t = this.overflowMin;
-    } else {
-      return NONE;
+    const head = this.head;
+    const mask = this.mask;
+    for (;;) {
+      for (let t = this.now, end = this.horizon; t <= end; t++) {
+        if (head[t & mask] === NONE) continue;
+        this.now = t;
+        // Overflow events come into the ring before anything else is scheduled for their time (FIFO).
+        if (this.overflowCount > 0 && this.overflowMin - t <= mask) this.migrate();
+        return t;
+      }
+      if (this.horizon >= this.now) this.now = this.horizon + 1;
+      if (this.overflowCount === 0) return NONE;
+      if (this.overflowMin > this.now) this.now = this.overflowMin;
+      this.migrate();
     }
-    this.now = t;
-    if (this.overflowCount > 0 && this.overflowMin - t <= this.mask) this.migrate();
-    return t;
   }
 
   /**
    * Detach and return the list of events due at `now` (-1 if none); walk it
-   * with `nextOf` and `release` each event after reading it.
+   * with `nextOf` (reading the next id before a `release`).
    */
   take(): number {
     const b = this.now & this.mask;
@@ -113,57 +157,39 @@ export class TimingWheel {
     return this.next[ev];
   }
 
-  /** Return a taken event to the pool. */
+  /** Return a taken pool event to the pool (reserved ids are the caller's and are not released). */
   release(ev: number): void {
-    this.ringCount--;
     this.next[ev] = this.freeHead;
     this.freeHead = ev;
   }
 
   /** Restart time at 0 on an empty queue (the next vector). */
   rewind(): void {
-    if (!this.empty) throw new Error('TimingWheel.rewind: events are still queued');
+    if (this.advance() !== NONE) throw new Error('TimingWheel.rewind: events are still queued');
     this.now = 0;
+    this.horizon = NONE;
   }
 
   /** Drop every queued event and restart time at 0. */
   clear(): void {
     this.head.fill(NONE);
     this.tail.fill(NONE);
-    this.ringCount = 0;
-    this.overflowHead = this.overflowTail = NONE;
+    this.horizon = NONE;
     this.overflowCount = 0;
     this.freeHead = NONE;
-    this.used = 0;
+    this.used = this.reserved;
     this.now = 0;
   }
 
-  private appendToRing(ev: number): void {
-    const b = this.time[ev] & this.mask;
-    if (this.tail[b] === NONE) this.head[b] = ev;
-    else this.next[this.tail[b]] = ev;
-    this.tail[b] = ev;
-    this.ringCount++;
-  }
-
-  private appendToOverflow(ev: number): void {
-    if (this.overflowCount === 0 || this.time[ev] < this.overflowMin) this.overflowMin = this.time[ev];
-    if (this.overflowTail === NONE) this.overflowHead = ev;
-    else this.next[this.overflowTail] = ev;
-    this.overflowTail = ev;
-    this.overflowCount++;
-  }
-
-  /** Move overflow events within reach of the ring into it, keeping their order. */
+  /** Move overflow events within reach of the ring into it, keeping their order; recompute the minimum. */
   private migrate(): void {
-    let ev = this.overflowHead;
-    this.overflowHead = this.overflowTail = NONE;
+    const s = this.overflow;
+    let ev = this.head[s];
+    this.head[s] = this.tail[s] = NONE;
     this.overflowCount = 0;
     while (ev !== NONE) {
       const after = this.next[ev];
-      this.next[ev] = NONE;
-      if (this.time[ev] - this.now <= this.mask) this.appendToRing(ev);
-      else this.appendToOverflow(ev);
+      this.place(ev, this.time[ev]);
       ev = after;
     }
   }
@@ -181,10 +207,10 @@ export class TimingWheel {
   private grow(): void {
     const capacity = this.time.length * 2;
     this.time = grown(this.time, capacity);
-    this.pin = grown(this.pin, capacity);
+    this.net = grown(this.net, capacity);
     this.value = grown(this.value, capacity);
-    this.dead = grown(this.dead, capacity);
     this.next = grown(this.next, capacity);
+    this.prev = grown(this.prev, capacity);
   }
 }
 

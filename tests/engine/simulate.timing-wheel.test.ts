@@ -2,14 +2,14 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { TimingWheel } from '../../src/engine/timing-wheel';
 
-/** Drain the wheel: every event as [time, pin], in the order it comes out. */
+/** Drain the wheel: every event as [time, net], in the order it comes out. */
 function drain(w: TimingWheel): [number, number][] {
   const out: [number, number][] = [];
   for (let t = w.advance(); t !== -1; t = w.advance()) {
     for (let ev = w.take(); ev !== -1; ) {
       const next = w.nextOf(ev);
       expect(w.time[ev]).toBe(t);
-      if (!w.dead[ev]) out.push([t, w.pin[ev]]);
+      out.push([t, w.net[ev]]);
       w.release(ev);
       ev = next;
     }
@@ -26,16 +26,32 @@ describe('TimingWheel', () => {
     expect(new TimingWheel(1_000_000).size).toBe(1 << 16);
   });
 
-  it('hands out events in time order, first in first out within a time, skipping dead ones', () => {
+  it('hands out events in time order, first in first out within a time, without cancelled ones', () => {
     const w = new TimingWheel(7);
     w.schedule(5, 1, 0);
-    const dead = w.schedule(3, 2, 0);
+    const cancelled = w.schedule(3, 2, 0);
     w.schedule(3, 3, 1);
     w.schedule(7, 4, 1);
     w.schedule(5, 5, 1);
-    w.dead[dead] = 1;
+    w.cancel(cancelled);
+    w.release(cancelled);
     expect(drain(w)).toEqual([[3, 3], [5, 1], [5, 5], [7, 4]]);
     expect(w.empty).toBe(true);
+  });
+
+  it('places caller-owned ids without the pool, and cancels them anywhere in a list', () => {
+    const w = new TimingWheel(3, 16, 8, 4); // ids 0 .. 3 are the caller's
+    w.place(0, 1);
+    w.place(1, 1);
+    w.place(2, 1);
+    w.place(3, 2);
+    w.cancel(1); // middle of its bucket
+    w.cancel(3); // alone in its bucket
+    w.place(3, 3);
+    const order: [number, number][] = [];
+    for (let t = w.advance(); t !== -1; t = w.advance()) for (let ev = w.take(); ev !== -1; ev = w.nextOf(ev)) order.push([t, ev]);
+    expect(order).toEqual([[1, 0], [1, 2], [3, 3]]);
+    expect(w.schedule(0, 9, 1)).toBeGreaterThanOrEqual(4);
   });
 
   it('takes events scheduled for the present time as the next batch (delta steps)', () => {
@@ -43,11 +59,11 @@ describe('TimingWheel', () => {
     w.schedule(2, 1, 0);
     expect(w.advance()).toBe(2);
     const first = w.take();
-    expect(w.pin[first]).toBe(1);
+    expect(w.net[first]).toBe(1);
     w.release(first);
     w.schedule(2, 9, 0); // zero delay, scheduled while time 2 is processed
     const second = w.take();
-    expect(w.pin[second]).toBe(9);
+    expect(w.net[second]).toBe(9);
     expect(w.nextOf(second)).toBe(-1);
     w.release(second);
     expect(w.take()).toBe(-1);
@@ -78,18 +94,28 @@ describe('TimingWheel', () => {
           const times: number[] = [];
           w.schedule(0, seq, 0);
           expected.push({ time: 0, seq: seq++ });
+          // Queued events by seq; every third batch cancels the oldest one still queued (ring or overflow).
+          const queued = new Map<number, number>();
           let k = 0;
           for (let t = w.advance(); t !== -1; t = w.advance()) {
             for (let ev = w.take(); ev !== -1; ) {
               const next = w.nextOf(ev);
-              got.push(w.pin[ev]);
+              got.push(w.net[ev]);
               times.push(t);
+              queued.delete(w.net[ev]);
               w.release(ev);
               ev = next;
               if (k >= 200) continue;
               for (const d of fanouts[k++ % fanouts.length]) {
-                w.schedule(t + d, seq, 0);
+                queued.set(seq, w.schedule(t + d, seq, 0));
                 expected.push({ time: t + d, seq: seq++ });
+              }
+              const [victim] = queued;
+              if (k % 3 === 0 && victim && w.time[victim[1]] > t) {
+                w.cancel(victim[1]);
+                w.release(victim[1]);
+                queued.delete(victim[0]);
+                expected.splice(expected.findIndex((e) => e.seq === victim[0]), 1);
               }
             }
           }
