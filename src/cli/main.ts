@@ -58,15 +58,7 @@ function writeText(path: string, text: string): void {
 }
 
 function loadDesign(args: CliArgs): Design {
-  const file = args.file!;
-  const design = parseDesign(readText(file, 'netlist'), file);
-  if (args.top) {
-    if (!design.modules.some((m) => m.name === args.top)) {
-      throw new UsageError(`--top ${args.top}: no module of that name in ${file}; it has ${design.modules.map((m) => m.name).join(', ')}`);
-    }
-    design.top = args.top;
-  }
-  return design;
+  return parseDesign(readText(args.file!, 'netlist'), args.file!, { top: args.top });
 }
 
 function options(args: CliArgs): { map?: PortMap; delayTable?: DelayTable } {

@@ -160,11 +160,22 @@ export function parseDesignJson(text: string, fileName = 'input.json'): Design {
   return design;
 }
 
-/** Reads a design by file suffix: `.v` is Verilog, `.json` the native document. */
-export function parseDesign(text: string, fileName: string): Design {
+/**
+ * Reads a design by file suffix: `.v` is Verilog, `.json` the native
+ * document. `top` picks the top module (Verilog files with several
+ * uninstanced modules need it; for JSON it overrides the document's).
+ */
+export function parseDesign(text: string, fileName: string, opts: { top?: string } = {}): Design {
   const lower = fileName.toLowerCase();
-  if (lower.endsWith('.v')) return parseVerilog(text, fileName);
-  if (lower.endsWith('.json')) return parseDesignJson(text, fileName);
+  if (lower.endsWith('.v')) return parseVerilog(text, fileName, opts);
+  if (lower.endsWith('.json')) {
+    const design = parseDesignJson(text, fileName);
+    if (opts.top === undefined) return design;
+    if (!design.modules.some((m) => m.name === opts.top)) {
+      throw new EngineError('parse', `${fileName}: no module '${opts.top}' to use as the top; the file has ${design.modules.map((m) => m.name).join(', ')}`);
+    }
+    return { ...design, top: opts.top };
+  }
   throw new EngineError('parse', `${fileName}: unknown file type; a netlist file ends in .v (Verilog) or .json (Skiplane JSON)`);
 }
 

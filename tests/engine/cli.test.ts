@@ -170,6 +170,19 @@ describe('skiplane timing', () => {
   });
 });
 
+describe('--top', () => {
+  it('picks the top module of a file with several uninstanced modules', () => {
+    const ha = 'module ha1(a, b, cin, s, cout);\n input a, b, cin; output s, cout;\n xor #1 (s, a, b); and #1 (cout, a, b);\nendmodule\n';
+    const spare = 'module spare(x, y);\n input x; output y;\n not (y, x);\nendmodule\n';
+    writeFileSync(join(dir, 'two.v'), ha + spare);
+    expectUsageError(skiplane('lint', 'two.v'), /cannot tell the top module/);
+    const r = skiplane('lint', 'two.v', '--top', 'ha1', '--json');
+    expect(r.code).toBe(0);
+    expect(JSON.parse(r.stdout).errors).toEqual([]);
+    expectUsageError(skiplane('lint', 'two.v', '--top', 'nope'), /'nope'/);
+  });
+});
+
 describe('skiplane export and generate', () => {
   it('converts Verilog to JSON and back to the same Verilog text', () => {
     expect(skiplane('export', 'skip8.v', '--out', 'skip8.json').code).toBe(0);
