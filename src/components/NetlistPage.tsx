@@ -247,7 +247,7 @@ function NetlistHeader({ n }: { n: Netlist }) {
         />
       ) : (
         <div className="flex flex-wrap items-start gap-3">
-          <div className="min-w-0 flex-1">
+          <div className="min-w-[min(100%,24rem)] flex-1">
             <h1 className="mono text-[18px] font-semibold">{n.name}</h1>
             <p className="text-[13px] text-muted">
               {bits(n.width)} · {n.kind} · {n.revisionCount} revision{n.revisionCount === 1 ? '' : 's'} · review <ReviewState state={n.reviewState} />

@@ -334,7 +334,7 @@ function ProjectHeader({ project }: { project: Project }) {
     );
   return (
     <div className="flex flex-wrap items-start gap-3">
-      <div className="min-w-0 flex-1">
+      <div className="min-w-[min(100%,24rem)] flex-1">
         <nav className="mb-1 text-[12px] text-muted" aria-label="Breadcrumb">
           <a href="/">Projects</a> <span className="mx-1">/</span> {project.name}
         </nav>
