@@ -39,6 +39,8 @@ export interface Finding {
 export interface LintResult {
   errors: Finding[];
   warnings: Finding[];
+  /** The flattened netlist lint checked for loops, when it got that far (saves the next pass flattening again). */
+  flat?: FlatNetlist;
 }
 
 export interface LintOptions {
@@ -101,7 +103,7 @@ export function lint(design: Design, opts: LintOptions = {}): LintResult {
     return result(out);
   }
   checkLoops(flat, out);
-  return result(out);
+  return { ...result(out), flat };
 }
 
 /** The adder ports need only the top module's ports, so they are checked even when the rest is broken. */

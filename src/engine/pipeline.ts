@@ -33,7 +33,7 @@ export interface Prepared {
 export function prepareAdder(design: Design, opts: PrepareOptions = {}): Prepared {
   const findings = lint(design, { map: opts.map, delayTable: opts.delayTable, requireAdderPorts: true });
   if (findings.errors.length > 0) return { lint: findings };
-  const flat = flatten(design, { delayTable: opts.delayTable });
+  const flat = findings.flat ?? flatten(design, { delayTable: opts.delayTable });
   const compiled = compile(flat);
   const ports = resolveAdderPorts(flat, opts.map);
   return { lint: findings, adder: { design, flat, compiled, ports } };
