@@ -94,6 +94,8 @@ const au = createColumnHelper<AuditEvent>();
 function describe(e: AuditEvent): string {
   const d = e.details ?? {};
   const s = (k: string) => (d[k] == null ? '' : String(d[k]));
+  // Older events may lack the netlist name; the number alone still reads.
+  const revName = () => [s('netlist'), d.number == null ? 'a revision' : `r${s('number')}`].filter(Boolean).join(' ');
   switch (e.action) {
     case 'project.created':
       return `created the project "${s('name')}"`;
@@ -122,17 +124,17 @@ function describe(e: AuditEvent): string {
     case 'netlist.deleted':
       return `deleted netlist ${s('name')}`;
     case 'revision.created':
-      return `added revision r${s('number')} (${s('format')}, 0x${s('contentHash').slice(0, 8)})`;
+      return `added ${revName()} (${s('format')}, 0x${s('contentHash').slice(0, 8)})`;
     case 'review.requested':
-      return 'asked for a review';
+      return `asked for a review of ${revName()}`;
     case 'review.approved':
-      return 'approved a revision (sign-off)';
+      return `approved ${revName()} (sign-off)`;
     case 'review.rejected':
-      return 'rejected a revision';
+      return `rejected ${revName()}`;
     case 'review.withdrawn':
-      return 'withdrew a review request';
+      return `withdrew the review request of ${revName()}`;
     case 'run.created':
-      return `started a ${s('kind')} run in the ${s('place')}`;
+      return `started a ${s('kind')} run of ${revName()} in the ${s('place')}`;
     default:
       return e.action;
   }

@@ -179,7 +179,7 @@ export async function seedDemo(db: Db): Promise<SeedResult> {
         action: 'revision.created',
         objectType: 'revision',
         objectId: revisionId,
-        details: { netlistId, number: 1, contentHash: sha256(content), format: 'verilog' },
+        details: { netlistId, netlist: n.name, number: 1, contentHash: sha256(content), format: 'verilog' },
       });
     }
   });

@@ -12,6 +12,7 @@ import { reviews, revisions, user } from '../db/schema';
 import { decideReviewBody, reviewComment } from '../rules';
 import { can, roleIn } from './access';
 import { recordAudit } from './audit';
+import { revisionRef } from './revisions';
 import { fail, idParams, json, route } from './http';
 
 export const requestReviewBody = z.object({ reviewerId: z.string().trim().min(1).max(100).optional(), comment: reviewComment.default('') }).strict();
@@ -84,7 +85,7 @@ export const requestReview = route(
         action: 'review.requested',
         objectType: 'review',
         objectId: id,
-        details: { revisionId: params.id, reviewerId: body.reviewerId ?? null },
+        details: { ...(await revisionRef(tx, params.id)), reviewerId: body.reviewerId ?? null },
       });
     });
     const [review] = await reviewRows(db, eq(reviews.id, id));
@@ -117,7 +118,7 @@ export const decideReview = route(
         action: `review.${body.state}`,
         objectType: 'review',
         objectId: r.id,
-        details: { revisionId: r.revisionId },
+        details: await revisionRef(tx, r.revisionId),
       });
     });
     const [review] = await reviewRows(db, eq(reviews.id, r.id));

@@ -8,7 +8,8 @@
 import crypto from 'node:crypto';
 import { desc, eq } from 'drizzle-orm';
 import { z } from 'zod';
-import { revisions, user } from '../db/schema';
+import type { Db } from '../db';
+import { netlists, revisions, user } from '../db/schema';
 import { MAX_REVISION_BYTES, REVISION_FORMATS, REVISION_SUFFIXES, revisionMessage as message, type RevisionFormat } from '../rules';
 import { recordAudit } from './audit';
 import { fail, idParams, json, methodNotAllowed, parseWith, readBodyLimited, readJson, route } from './http';
@@ -103,6 +104,17 @@ async function readIncoming(request: Request): Promise<Incoming> {
 
 export { MAX_REVISION_BYTES };
 
+/** How audit events name a revision: its id, number and netlist, so the trail reads without lookups. */
+export async function revisionRef(db: Pick<Db, 'select'>, revisionId: string) {
+  const r = await db
+    .select({ number: revisions.number, netlist: netlists.name })
+    .from(revisions)
+    .innerJoin(netlists, eq(netlists.id, revisions.netlistId))
+    .where(eq(revisions.id, revisionId))
+    .get();
+  return { revisionId, number: r?.number ?? null, netlist: r?.netlist ?? null };
+}
+
 export const sha256 = (text: string) => crypto.createHash('sha256').update(text, 'utf8').digest('hex');
 
 const summary = {
@@ -130,6 +142,7 @@ export const listRevisions = route({ params: idParams, scope: { type: 'netlist',
 
 export const createRevision = route({ params: idParams, scope: { type: 'netlist', need: 'edit' } }, async ({ db, params, request, user: me, scope }) => {
   const inc = await readIncoming(request);
+  const netlistName = (await db.select({ name: netlists.name }).from(netlists).where(eq(netlists.id, params.id)).get())?.name ?? null;
   const hash = sha256(inc.content);
   const id = crypto.randomUUID();
   const number = await db.transaction(async (tx) => {
@@ -160,7 +173,7 @@ export const createRevision = route({ params: idParams, scope: { type: 'netlist'
       action: 'revision.created',
       objectType: 'revision',
       objectId: id,
-      details: { netlistId: params.id, number: n, contentHash: hash, format: inc.format },
+      details: { netlistId: params.id, netlist: netlistName, number: n, contentHash: hash, format: inc.format },
     });
     return n;
   });

@@ -10,6 +10,7 @@ import { ENGINE_VERSION } from '../../engine/model';
 import { runs, user } from '../db/schema';
 import { runKind, runPlace, seedText } from '../rules';
 import { recordAudit } from './audit';
+import { revisionRef } from './revisions';
 import { idParams, json, route } from './http';
 
 export const createRunBody = z
@@ -72,7 +73,7 @@ export const createRun = route(
         action: 'run.created',
         objectType: 'run',
         objectId: id,
-        details: { revisionId: params.id, kind: body.kind, place: body.place },
+        details: { ...(await revisionRef(tx, params.id)), kind: body.kind, place: body.place },
       });
     });
     const run = await db.select(columns).from(runs).leftJoin(user, eq(user.id, runs.createdBy)).where(eq(runs.id, id)).get();
