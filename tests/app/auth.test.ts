@@ -63,4 +63,9 @@ describe('accounts', () => {
     });
     expect(res.status).toBe(403);
   });
+
+  it('refuses an oversized auth request before parsing it', async () => {
+    const res = await call('POST', '/api/auth/sign-in/email', { json: { email: 'x@example.test', password: 'p'.repeat(100_000) } });
+    expect(res.status).toBe(413);
+  });
 });
