@@ -41,7 +41,7 @@ export function DataTable<T>({ data, columns, empty, filterPlaceholder = 'Filter
           onChange={(e) => setFilter(e.target.value)}
         />
         <span className="text-[12px] text-muted">
-          {rows.length} of {data.length}
+          {rows.length} of {data.length} {label}
         </span>
         <div className="ml-auto flex items-center gap-2">{toolbar}</div>
       </div>

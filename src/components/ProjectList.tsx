@@ -5,7 +5,7 @@ import { useState } from 'react';
 import { api } from './api';
 import { ProjectForm, type ProjectFormValues } from './ProjectForm';
 import { DataTable } from './DataTable';
-import { ago, utc } from './format';
+import { ago, count, utc } from './format';
 import { withQuery } from './query';
 import { ErrorText, Loading, Panel, RoleChip } from './ui';
 
@@ -31,7 +31,7 @@ const columns = [
       </div>
     ),
   }),
-  col.accessor('netlistCount', { header: 'Netlists', cell: (c) => <span className="mono">{c.getValue()}</span> }),
+  col.accessor('netlistCount', { header: 'Netlists', cell: (c) => <span className="mono">{count(c.getValue(), 'netlist')}</span> }),
   col.accessor('lastActivityAt', {
     header: 'Last activity',
     cell: (c) => (

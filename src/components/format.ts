@@ -1,9 +1,11 @@
 /** How values read on screen: units always, UTC timestamps, revisions as rN, hashes as 0x… in mono. */
 export const rev = (n: number | null | undefined) => (n == null ? '—' : `r${n}`);
 
-export function bits(n: number | null | undefined): string {
-  return n == null ? '—' : `${n} bit${n === 1 ? '' : 's'}`;
+export function count(n: number | null | undefined, unit: string): string {
+  return n == null ? '—' : `${n} ${unit}${n === 1 ? '' : 's'}`;
 }
+
+export const bits = (n: number | null | undefined) => count(n, 'bit');
 
 export function bytes(n: number | null | undefined): string {
   if (n == null) return '—';
