@@ -45,6 +45,9 @@ function Outbox() {
           No SMTP_URL is set, so e-mail is not sent: each message is written as an <span className="mono">.eml</span> file under{' '}
           <span className="mono">data/outbox/</span> and listed here, newest first.
         </p>
+        <p className="text-[13px] text-warn">
+          ! For local use only: every project owner can read every message here, password-reset links included. Set SMTP_URL on any shared server.
+        </p>
       </div>
       <Panel title="Messages">
         {q.isPending ? (
@@ -64,7 +67,7 @@ function Outbox() {
                     onClick={() => setOpen(shown ? '' : m.id)}
                     aria-expanded={shown}
                   >
-                    <span className="mono w-40 shrink-0 text-[12px] text-muted">{utc(m.date)}</span>
+                    <span className="mono w-44 shrink-0 text-[12px] whitespace-nowrap text-muted">{utc(m.date)}</span>
                     <span className="mono w-64 shrink-0 truncate text-[12px]">{m.to}</span>
                     <span className="flex-1 truncate font-medium">{m.subject}</span>
                   </button>
