@@ -32,7 +32,8 @@ export class AdderHarness {
   readonly outputNets: Int32Array;
   private readonly aPos: Int32Array;
   private readonly bPos: Int32Array;
-  private readonly cinPos: number;
+  /** The carry-in's position, or none when the design has no carry-in. */
+  private readonly cinPos: Int32Array;
 
   constructor(
     readonly compiled: CompiledNetlist,
@@ -46,7 +47,7 @@ export class AdderHarness {
     };
     this.aPos = Int32Array.from(ports.a, (net) => position(net, ports.names.a));
     this.bPos = Int32Array.from(ports.b, (net) => position(net, ports.names.b));
-    this.cinPos = ports.cin === null ? -1 : position(ports.cin, ports.names.cin ?? 'cin');
+    this.cinPos = ports.cin === null ? new Int32Array(0) : Int32Array.of(position(ports.cin, ports.names.cin ?? 'cin'));
     this.outputNets = Int32Array.from(ports.cout === null ? ports.sum : [...ports.sum, ports.cout]);
     this.inputs = new Uint8Array(compiled.inputNets.length);
     this.sim = new TimingSimulator(compiled, { ...options, observe: this.outputNets });
@@ -56,7 +57,7 @@ export class AdderHarness {
   setVector(v: Vector): void {
     writeBits(v.a, this.aPos, this.inputs);
     writeBits(v.b, this.bPos, this.inputs);
-    if (this.cinPos >= 0) this.inputs[this.cinPos] = Number(v.cin & 1n);
+    writeBits(v.cin, this.cinPos, this.inputs);
   }
 
   /** Zero-delay settled state for a vector; returns its sum. */
@@ -99,8 +100,22 @@ export function runVectors(compiled: CompiledNetlist, ports: AdderPorts, vectors
   return vectors.map((v) => harness.applyStep(v).step);
 }
 
+const MAX_EXACT = BigInt(Number.MAX_SAFE_INTEGER);
+
 /** Write the low `positions.length` bits of `value` to `out[positions[i]]`, 32 bits at a time. */
 function writeBits(value: bigint, positions: Int32Array, out: Uint8Array): void {
+  if (value >= 0n && value <= MAX_EXACT) {
+    // The usual operand is exact as a double: no BigInt arithmetic, which allocates, per vector.
+    const x = Number(value);
+    let chunk = x >>> 0;
+    const high = (x - chunk) / 2 ** 32;
+    for (let j = 0; j < positions.length; j++) {
+      if (j === 32) chunk = high;
+      out[positions[j]] = chunk & 1;
+      chunk >>>= 1;
+    }
+    return;
+  }
   let rest = value;
   for (let i = 0; i < positions.length; i += 32) {
     let chunk = Number(BigInt.asUintN(32, rest));

@@ -46,6 +46,24 @@ describe('AdderHarness', () => {
     ]);
   });
 
+  it('writes operand bits exactly, below and beyond 2^53 (the fast and the BigInt path)', () => {
+    const { flat, ports } = rippleFlat(64);
+    const c = compile(flat);
+    const h = new AdderHarness(c, ports);
+    const bit = (x: bigint, i: number) => Number((x >> BigInt(i)) & 1n);
+    const operand = fc.oneof(fc.bigInt({ min: 0n, max: (1n << 64n) - 1n }), fc.bigInt({ min: (1n << 53n) - 3n, max: (1n << 53n) + 3n }), fc.bigInt({ min: 0n, max: 1n << 33n }));
+    fc.assert(
+      fc.property(operand, operand, fc.bigInt({ min: 0n, max: 3n }), (a, b, cin) => {
+        h.setVector({ a, b, cin });
+        for (let i = 0; i < 64; i++) {
+          expect(h.inputs[c.inputIndex[ports.a[i]]]).toBe(bit(a, i));
+          expect(h.inputs[c.inputIndex[ports.b[i]]]).toBe(bit(b, i));
+        }
+        expect(h.inputs[c.inputIndex[ports.cin!]]).toBe(bit(cin, 0));
+      }),
+    );
+  });
+
   it('reads and writes wide operands across 32-bit chunks', () => {
     const n = 70;
     const { flat, ports } = rippleFlat(n);
