@@ -1,5 +1,5 @@
 /** The owner invites by e-mail; the link in the outbox lets exactly that address join, once. */
-import { beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it, vi } from 'vitest';
 import { callJson, outbox, signUp } from './support/harness';
 
 let owner: { cookie: string; id: string };
@@ -113,14 +113,17 @@ describe('invitation flow', () => {
 
   it('with SMTP_URL set, sends through SMTP, hides the outbox, and explains a failed send', async () => {
     process.env.SMTP_URL = 'smtp://127.0.0.1:9'; // nothing listens on the discard port
+    const logged = vi.spyOn(console, 'error').mockImplementation(() => undefined);
     try {
       const res = await invite('hana@example.test', 'viewer');
       expect(res.status).toBe(502);
       expect(res.body.error.code).toBe('mail_failed');
       expect(res.body.error.message).toContain('revoke the invitation and invite again');
       expect((await callJson('GET', '/api/dev/outbox', { cookie: owner.cookie })).status).toBe(404);
+      expect(logged).toHaveBeenCalled();
     } finally {
       delete process.env.SMTP_URL;
+      logged.mockRestore();
     }
   });
 });
