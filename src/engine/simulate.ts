@@ -63,9 +63,22 @@ export interface StepResult {
 const NONE = -1;
 /** `before` of a net not touched at the present time. */
 const UNTOUCHED = 2;
-/** `state` bits. */
-const WANT = 1;
-const PENDING = 2;
+/** Bits of `state` (and of `netFlags`: the two static ones); a const enum, so each is a literal in the emitted code. */
+const enum Flag {
+  /** See `state`. */
+  Want = 1,
+  Pending = 2,
+  /**
+   * The net's changes are judged at the end of each time step: a net that
+   * may pulse within one time (zero delays), or every net when logging, so
+   * the log keeps the order of first touches. Other nets change at most
+   * once per time and are recorded as they are set.
+   */
+  Deferred = 4,
+  /** The net is observed. */
+  Observed = 8,
+  Static = Deferred | Observed,
+}
 
 export class TimingSimulator {
   /** Present value of every net. Read it; do not write it. */
@@ -81,14 +94,16 @@ export class TimingSimulator {
   private settled = false;
 
   /**
-   * Per output pin, bit 0 (WANT): the value it is headed for, that is the
+   * Per output pin, bit 0 (Want): the value it is headed for, that is the
    * last value scheduled (transport) or the pending value (inertial), and
    * its present value when nothing is pending; an evaluation that gives it
-   * changes nothing. Bit 1 (PENDING, inertial): a change is pending.
+   * changes nothing. Bit 1 (Pending, inertial): a change is pending. Its
+   * net's static flags (Deferred, Observed) ride along, saving the hot loop
+   * a table read per event.
    *
    * Inertial events need no pool: a pin has at most one pending change, so
    * its event id is the pin itself, carrying its net (`idNet`) and new value
-   * (WANT); ids pinCount + i carry primary input i at time 0. Transport
+   * (Want); ids pinCount + i carry primary input i at time 0. Transport
    * events come from the wheel's pool with their net and value.
    */
   private readonly state: Uint8Array;
@@ -98,13 +113,8 @@ export class TimingSimulator {
   private readonly dirty: Int32Array;
   private readonly isDirty: Uint8Array;
 
-  /**
-   * Per net, 1 when its changes are judged at the end of each time step: a
-   * net that may pulse within one time (zero delays), or every net when
-   * logging, so the log keeps the order of first touches. Other nets change
-   * at most once per time and are recorded as they are set.
-   */
-  private readonly deferred: Uint8Array;
+  /** Per net: Flag.Deferred and Flag.Observed. */
+  private readonly netFlags: Uint8Array;
   /** Deferred nets touched at the present time, with their value before it (UNTOUCHED otherwise, so nothing is reset per step). */
   private readonly touched: Int32Array;
   private readonly before: Uint8Array;
@@ -151,7 +161,7 @@ export class TimingSimulator {
     this.idNet = new Int32Array(ids);
     this.idNet.set(compiled.outNets);
     this.idNet.set(compiled.inputNets, pinCount);
-    this.deferred = deferredNets(compiled, this.transport, this.logging);
+    this.netFlags = deferredNets(compiled, this.transport, this.logging);
     this.dirty = new Int32Array(cellCount);
     this.isDirty = new Uint8Array(cellCount);
     this.touched = new Int32Array(netCount);
@@ -160,7 +170,10 @@ export class TimingSimulator {
 
     const observe = options.observe ?? compiled.outputNets;
     this.observedPos = new Int32Array(netCount);
-    for (let i = 0; i < observe.length; i++) this.observedPos[observe[i]] = i + 1;
+    for (let i = 0; i < observe.length; i++) {
+      this.observedPos[observe[i]] = i + 1;
+      this.netFlags[observe[i]] |= Flag.Observed;
+    }
     this.changedIn = new Int32Array(netCount);
   }
 
@@ -172,7 +185,10 @@ export class TimingSimulator {
   settle(inputs: ArrayLike<number>): void {
     settleValues(this.c, inputs, this.values);
     this.wheel.clear();
-    for (let pin = 0; pin < this.c.pinCount; pin++) this.state[pin] = this.values[this.c.outNets[pin]];
+    for (let pin = 0; pin < this.c.pinCount; pin++) {
+      const net = this.c.outNets[pin];
+      this.state[pin] = this.values[net] | this.netFlags[net];
+    }
     this.settled = true;
   }
 
@@ -200,7 +216,7 @@ export class TimingSimulator {
       if (this.transport) {
         wheel.schedule(0, net, v);
       } else {
-        this.state[base + i] = v | PENDING;
+        this.state[base + i] = v | this.netFlags[net];
         wheel.place(base + i, 0);
       }
     }
@@ -222,7 +238,7 @@ export class TimingSimulator {
     const wheel = this.wheel;
     const transport = this.transport;
     const logging = this.logging;
-    const { values, state, idNet, dirty, isDirty, touched, before, deferred, observedPos, changedIn, vector } = this;
+    const { values, state, idNet, netFlags, dirty, isDirty, touched, before, observedPos, changedIn, vector } = this;
     let dirtyCount = 0;
     let touchedCount = 0;
     let settle = 0;
@@ -242,37 +258,39 @@ export class TimingSimulator {
           const after = next[ev];
           let net: number;
           let v: number;
+          let flags: number;
           if (transport) {
             net = evNet[ev];
             v = evValue[ev];
+            flags = netFlags[net];
             wheel.release(ev);
           } else {
+            const st = state[ev];
             net = idNet[ev];
-            v = state[ev] & WANT;
-            state[ev] = v;
+            v = st & Flag.Want;
+            flags = st;
+            state[ev] = st & ~Flag.Pending;
           }
-          if (values[net] !== v) {
-            if (deferred[net] === 0) {
-              // Recorded now: the deferred record below without the log, inline because it is the hot path.
-              lastEvent = t;
-              const pos = observedPos[net];
-              if (pos !== 0) {
-                outputChanges++;
-                if (changedIn[net] === vector) glitches++;
-                else changedIn[net] = vector;
-                settle = t;
-              }
-            } else if (before[net] === UNTOUCHED) {
-              before[net] = values[net];
-              touched[touchedCount++] = net;
+          // Every event changes its net: a pin's next value always differs from its last one (Want).
+          if ((flags & Flag.Deferred) === 0) {
+            // Recorded now: the deferred record below without the log, inline because it is the hot path.
+            lastEvent = t;
+            if (flags & Flag.Observed) {
+              outputChanges++;
+              if (changedIn[net] === vector) glitches++;
+              else changedIn[net] = vector;
+              settle = t;
             }
-            values[net] = v;
-            for (let f = fanStart[net], end = fanStart[net + 1]; f < end; f++) {
-              const cell = fanCell[f];
-              if (isDirty[cell] === 0) {
-                isDirty[cell] = 1;
-                dirty[dirtyCount++] = cell;
-              }
+          } else if (before[net] === UNTOUCHED) {
+            before[net] = values[net];
+            touched[touchedCount++] = net;
+          }
+          values[net] = v;
+          for (let f = fanStart[net], end = fanStart[net + 1]; f < end; f++) {
+            const cell = fanCell[f];
+            if (isDirty[cell] === 0) {
+              isDirty[cell] = 1;
+              dirty[dirtyCount++] = cell;
             }
           }
           ev = after;
@@ -288,16 +306,17 @@ export class TimingSimulator {
             const v = outs & 1;
             const st = state[pin];
             // The common case: a pending change to v stays, or v is the present value and nothing is pending.
-            if (v === (st & WANT)) continue;
+            if (v === (st & Flag.Want)) continue;
+            const kept = (st & Flag.Static) | v;
             if (transport) {
-              state[pin] = v;
+              state[pin] = kept;
               wheel.schedule(t + rise[pin], outNets[pin], v); // rise = fall in transport mode
-            } else if (st & PENDING) {
+            } else if (st & Flag.Pending) {
               // A pending change to the other value: the glitch is swallowed, v is the present value again.
-              state[pin] = v;
+              state[pin] = kept;
               wheel.cancel(pin);
             } else {
-              state[pin] = v | PENDING;
+              state[pin] = kept | Flag.Pending;
               wheel.place(pin, t + (v ? rise[pin] : fall[pin]));
             }
           }
@@ -413,20 +432,21 @@ export class TimingSimulator {
 }
 
 /**
- * Nets that may change twice at one time (see `TimingSimulator.deferred`).
- * Inertial: a pin has one pending change at a time, so a second change at
- * the same time needs a zero delay on the pin itself. Transport: a pin
- * evaluated in two delta steps schedules twice for one time, and delta
- * steps need a zero delay anywhere.
+ * Per net, Flag.Deferred on the nets that may change twice at one time, or
+ * on every net when logging (see Flag.Deferred). Inertial: a pin has one
+ * pending change at a time, so a second change at the same time needs a
+ * zero delay on the pin itself. Transport: a pin evaluated in two delta
+ * steps schedules twice for one time, and delta steps need a zero delay
+ * anywhere.
  */
 function deferredNets(c: CompiledNetlist, transport: boolean, logging: boolean): Uint8Array {
-  const deferred = new Uint8Array(c.netCount);
-  if (logging) return deferred.fill(1);
+  const flags = new Uint8Array(c.netCount);
+  if (logging) return flags.fill(Flag.Deferred);
   const zero = (pin: number) => c.rise[pin] === 0 || c.fall[pin] === 0;
   let anyZero = false;
   for (let pin = 0; pin < c.pinCount; pin++) anyZero ||= zero(pin);
-  for (let pin = 0; pin < c.pinCount; pin++) if (transport ? anyZero : zero(pin)) deferred[c.outNets[pin]] = 1;
-  return deferred;
+  for (let pin = 0; pin < c.pinCount; pin++) if (transport ? anyZero : zero(pin)) flags[c.outNets[pin]] = Flag.Deferred;
+  return flags;
 }
 
 /** SPEC §3: transport mode needs equal rise and fall delays on every pin; name the cells that lack them. */
