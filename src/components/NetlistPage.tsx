@@ -12,6 +12,7 @@ import { DataTable } from './DataTable';
 import { bits, bytes, delay, hash, rev, utc } from './format';
 import type { NetlistRow } from './ProjectOverview';
 import { withQuery } from './query';
+import { NetlistCheck, type NetlistCheckResult } from './NetlistCheck';
 import { SignOff } from './SignOff';
 import { ErrorText, Field, Loading, Notice, Panel, ReviewState, RoleChip, RunStatus } from './ui';
 
@@ -161,15 +162,28 @@ function RunForm({ revisionId }: { revisionId: string }) {
   );
 }
 
-function RevisionDetail({ revisionId, netlistId, role, meId }: { revisionId: string; netlistId: string; role: string; meId: string }) {
+function RevisionDetail({
+  revisionId,
+  netlistId,
+  role,
+  meId,
+  declaredWidth,
+}: {
+  revisionId: string;
+  netlistId: string;
+  role: string;
+  meId: string;
+  declaredWidth: number | null;
+}) {
   const editable = role === 'owner' || role === 'designer';
-  const r = useQuery({ queryKey: ['revision', revisionId], queryFn: () => api<{ revision: Revision }>(`/api/revisions/${revisionId}`) });
+  const r = useQuery({ queryKey: ['revision', revisionId], queryFn: () => api<{ revision: Revision; check: NetlistCheckResult }>(`/api/revisions/${revisionId}`) });
   const runs = useQuery({ queryKey: ['runs', revisionId], queryFn: () => api<{ runs: Run[] }>(`/api/revisions/${revisionId}/runs`) });
   if (r.isPending) return <Loading what="the revision" />;
   if (r.error) return <ErrorText error={r.error} />;
   const v = r.data.revision;
   return (
     <div className="space-y-4">
+      <NetlistCheck check={r.data.check} declaredWidth={declaredWidth} />
       <div className="grid gap-4 xl:grid-cols-[minmax(0,1fr)_420px]">
         <Panel title={<>Runs of {rev(v.number)}</>} id="runs-title">
           {editable && <RunForm revisionId={revisionId} />}
@@ -325,7 +339,7 @@ function NetlistPage({ netlistId, meId }: { netlistId: string; meId: string }) {
           />
         )}
       </Panel>
-      {current && <RevisionDetail key={current} revisionId={current} netlistId={netlistId} role={netlist.role} meId={meId} />}
+      {current && <RevisionDetail key={current} revisionId={current} netlistId={netlistId} role={netlist.role} meId={meId} declaredWidth={netlist.width} />}
     </div>
   );
 }

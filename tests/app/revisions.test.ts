@@ -1,6 +1,9 @@
-/** Revisions: numbering, hashing, immutability, and the upload rules (size, suffix, UTF-8, JSON). */
+/** Revisions: numbering, hashing, immutability, the upload rules (size, suffix, UTF-8, readable netlist) and the engine's check. */
 import crypto from 'node:crypto';
 import { beforeAll, describe, expect, it } from 'vitest';
+import { generateAdder } from '../../src/engine/generate';
+import { writeDesignJson } from '../../src/engine/json';
+import { writeVerilog } from '../../src/engine/verilog/write';
 import { call, callJson, signUp } from './support/harness';
 
 const MIB2 = 2 * 1024 * 1024;
@@ -17,8 +20,9 @@ function upload(name: string, data: Uint8Array<ArrayBuffer> | string, extra: Rec
 }
 
 /** A file of exactly n bytes of Verilog-ish text. */
+/** A readable netlist padded with a comment to exactly n bytes. */
 function bigText(n: number): string {
-  const head = '// padding\n';
+  const head = verilog('big') + '// padding ';
   return head + 'x'.repeat(n - head.length);
 }
 
@@ -67,12 +71,35 @@ describe('revisions', () => {
   });
 
   it('accepts a .json netlist that parses, and refuses one that does not', async () => {
-    const ok = await upload('add1.json', JSON.stringify({ top: 'add1', modules: [] }));
+    const ok = await upload('ripple2.json', writeDesignJson(generateAdder({ arch: 'ripple', width: 2 })));
     expect(ok.status).toBe(201);
     expect(ok.body.revision.format).toBe('json');
     const bad = await upload('broken.json', '{"top": ');
     expect(bad.status).toBe(400);
     expect(bad.body.error.message).toMatch(/not valid JSON/);
+  });
+
+  it('refuses a netlist the engine cannot read, quoting file, line and column', async () => {
+    const bad = await upload('typo.v', 'module add1(a, b, s);\n  input a, b;\n  output s\n  xor (s, a, b);\nendmodule\n');
+    expect(bad.status).toBe(400);
+    expect(bad.body.error.message).toMatch(/typo\.v:4:3: expected ';'/);
+  });
+
+  it('keeps a revision with lint errors and reports the findings with it', async () => {
+    // Reads fine, but `cout` has no driver (SPEC §2: a net with no driver that something reads).
+    const text = 'module add1(a, b, cin, s, cout);\n  input a, b, cin;\n  output s, cout;\n  xor #4 (s, a, b, cin);\nendmodule\n';
+    const made = await upload('undriven.v', text);
+    expect(made.status).toBe(201);
+    expect(made.body.check.errors.map((f: { code: string }) => f.code)).toContain('undriven');
+    const read = await callJson('GET', `/api/revisions/${made.body.revision.id}`, { cookie: designer.cookie });
+    expect(read.body.check.errors[0]).toMatchObject({ code: 'undriven', where: expect.stringContaining('cout') });
+    expect(read.body.check.adder).toBeNull();
+  });
+
+  it('reports the adder ports of a clean netlist', async () => {
+    const made = await upload('skip4.v', writeVerilog(generateAdder({ arch: 'skip', width: 4, block: 2 })));
+    expect(made.status).toBe(201);
+    expect(made.body.check).toMatchObject({ top: 'skip4_b2', errors: [], adder: { width: 4, a: 'a', b: 'b', cin: 'cin', sum: 's', cout: 'cout' } });
   });
 
   it('refuses other suffixes, non-UTF-8 bytes and empty files with 400', async () => {

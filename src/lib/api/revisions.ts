@@ -1,9 +1,9 @@
 /**
  * Revisions: the exact text of a netlist at one moment, numbered r1, r2, …
  * per netlist, hashed with SHA-256 and never changed afterwards. They come
- * from a JSON body or an uploaded .v / .json file of at most 2 MiB. Whether
- * the netlist itself is sound is the engine's job; here we check size,
- * suffix, UTF-8 text and, for .json, that it parses.
+ * from a JSON body or an uploaded .v / .json file of at most 2 MiB of UTF-8
+ * text that the engine can read (a parse error is refused with its line and
+ * column); lint findings travel with the revision rather than refusing it.
  */
 import crypto from 'node:crypto';
 import { desc, eq } from 'drizzle-orm';
@@ -11,6 +11,8 @@ import { z } from 'zod';
 import type { Db } from '../db';
 import { netlists, revisions, user } from '../db/schema';
 import { MAX_REVISION_BYTES, REVISION_FORMATS, REVISION_SUFFIXES, revisionMessage as message, type RevisionFormat } from '../rules';
+import { EngineError } from '../../engine/errors';
+import { checkNetlist, checkStoredNetlist, type NetlistCheck } from '../netlist-check';
 import { recordAudit } from './audit';
 import { fail, idParams, json, methodNotAllowed, parseWith, readBodyLimited, readJson, route } from './http';
 
@@ -55,14 +57,17 @@ export function checkRevisionText(bytes: Uint8Array, format: RevisionFormat, lab
   }
   const nul = text.indexOf('\0');
   if (nul >= 0) throw fail.invalid(`${label} contains a NUL byte at offset ${nul}; it looks binary, not a text netlist.`);
-  if (format === 'json') {
-    try {
-      JSON.parse(text);
-    } catch (e) {
-      throw fail.invalid(`${label} is not valid JSON (${(e as Error).message}); fix it or upload it as Verilog (.v).`);
-    }
-  }
   return text;
+}
+
+/** Refuses a netlist the engine cannot read, quoting the engine's message (file, line, column, what was expected). */
+function readableNetlist(inc: Incoming, label: string): NetlistCheck {
+  try {
+    return checkNetlist(inc.content, inc.format, inc.filename);
+  } catch (e) {
+    if (!(e instanceof EngineError)) throw e;
+    throw fail.invalid(`${label} is not a netlist Skiplane can read: ${e.message}`);
+  }
 }
 
 interface Incoming {
@@ -72,7 +77,7 @@ interface Incoming {
   message: string;
 }
 
-async function readIncoming(request: Request): Promise<Incoming> {
+async function readIncoming(request: Request): Promise<Incoming & { check: NetlistCheck }> {
   const type = request.headers.get('content-type') ?? '';
   if (/^multipart\/form-data\b/i.test(type)) {
     const bytes = await readBodyLimited(request, MAX_REVISION_BYTES + MULTIPART_OVERHEAD, MAX_REVISION_BYTES);
@@ -89,7 +94,8 @@ async function readIncoming(request: Request): Promise<Incoming> {
     if (file.size > MAX_REVISION_BYTES) throw fail.tooLarge(MAX_REVISION_BYTES);
     const content = checkRevisionText(new Uint8Array(await file.arrayBuffer()), format, `The file "${name}"`);
     const msg = parseWith(message, String(form.get('message') ?? ''));
-    return { content, format, filename: name, message: msg };
+    const inc = { content, format, filename: name, message: msg };
+    return { ...inc, check: readableNetlist(inc, `The file "${name}"`) };
   }
   const body = parseWith(createRevisionJsonBody, await readJson(request, JSON_ENVELOPE_LIMIT, MAX_REVISION_BYTES));
   const byName = body.filename ? formatFromName(body.filename) : undefined;
@@ -99,7 +105,8 @@ async function readIncoming(request: Request): Promise<Incoming> {
   const format = body.format ?? byName;
   if (!format) throw fail.invalid('Say what the content is: set format to "verilog" or "json", or give a filename ending in .v or .json.');
   const content = checkRevisionText(new TextEncoder().encode(body.content), format, 'content');
-  return { content, format, filename: body.filename ?? null, message: body.message };
+  const inc = { content, format, filename: body.filename ?? null, message: body.message };
+  return { ...inc, check: readableNetlist(inc, 'content') };
 }
 
 export { MAX_REVISION_BYTES };
@@ -178,7 +185,7 @@ export const createRevision = route({ params: idParams, scope: { type: 'netlist'
     return n;
   });
   const revision = await db.select(summary).from(revisions).leftJoin(user, eq(user.id, revisions.authorId)).where(eq(revisions.id, id)).get();
-  return json({ revision: { ...revision, number } }, 201);
+  return json({ revision: { ...revision, number }, check: inc.check }, 201);
 });
 
 export const getRevision = route({ params: idParams, scope: { type: 'revision', need: 'read' } }, async ({ db, params, scope }) => {
@@ -188,7 +195,8 @@ export const getRevision = route({ params: idParams, scope: { type: 'revision', 
     .leftJoin(user, eq(user.id, revisions.authorId))
     .where(eq(revisions.id, params.id))
     .get();
-  return { revision: { ...revision, role: scope.role } };
+  const check = revision ? checkStoredNetlist(revision.content, revision.format as RevisionFormat, revision.filename) : null;
+  return { revision: { ...revision, role: scope.role }, check };
 });
 
 export const revisionIsImmutable = methodNotAllowed(
