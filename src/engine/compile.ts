@@ -89,13 +89,17 @@ export interface CompiledNetlist {
   /** Scratch stack for expression evaluation, sized for the deepest expression. */
   exprStack: Uint8Array;
   /**
-   * Per cell with at most 3 inputs and 2 outputs (every built-in cell but
+   * Per cell with at most 4 inputs and 2 outputs (every built-in cell but
    * wide gates): its truth table, 2 bits per input combination (output pin k
-   * in bit k), indexed by in0 | in1 << 1 | in2 << 2; -1 for other cells,
-   * which `evalCell` evaluates. One branch-free lookup for the simulator.
+   * in bit k; all 32 bits used), indexed by in0 | in1 << 1 | in2 << 2 | in3 << 3.
+   * One branch-free lookup for the simulator instead of `evalCell`.
    */
   table: Int32Array;
-  /** Per cell, 3 entries: the input nets the table reads (unused entries repeat input 0, which the table ignores). */
+  /**
+   * Per cell, 4 entries: the input nets the table reads (unused entries
+   * repeat input 0, which the table ignores); -1 first for a cell without a
+   * table.
+   */
   tableIn: Int32Array;
   /** Cells in topological (levelized) order: every cell after the drivers of its inputs. */
   order: Int32Array;
@@ -210,8 +214,8 @@ export function compile(flat: FlatNetlist): CompiledNetlist {
     codeStart,
     code: Int32Array.from(code),
     exprStack: new Uint8Array(maxDepth),
-    table: new Int32Array(cellCount).fill(-1),
-    tableIn: new Int32Array(3 * cellCount),
+    table: new Int32Array(cellCount),
+    tableIn: new Int32Array(4 * cellCount).fill(-1),
     order,
     inputNets: Int32Array.from(inputList),
     inputIndex,
@@ -232,10 +236,10 @@ function buildTables(c: CompiledNetlist): void {
   for (let cell = 0; cell < c.cellCount; cell++) {
     const s = c.inStart[cell];
     const inputs = c.inStart[cell + 1] - s;
-    if (inputs > 3 || c.outStart[cell + 1] - c.outStart[cell] > 2) continue;
-    for (let k = 0; k < 3; k++) c.tableIn[3 * cell + k] = inputs === 0 ? 0 : c.inNets[s + (k < inputs ? k : 0)];
+    if (inputs > 4 || c.outStart[cell + 1] - c.outStart[cell] > 2) continue;
+    for (let k = 0; k < 4; k++) c.tableIn[4 * cell + k] = inputs === 0 ? 0 : c.inNets[s + (k < inputs ? k : 0)];
     let table = 0;
-    for (let idx = 0; idx < 8; idx++) {
+    for (let idx = 0; idx < 16; idx++) {
       // Entries for combinations the cell cannot see (an unused or repeated input differing) are never read.
       for (let k = 0; k < inputs; k++) scratch[c.inNets[s + k]] = (idx >> k) & 1;
       table |= evalCell(c, cell, scratch) << (2 * idx);

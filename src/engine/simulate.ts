@@ -299,9 +299,12 @@ export class TimingSimulator {
         for (let i = 0; i < dirtyCount; i++) {
           const cell = dirty[i];
           isDirty[cell] = 0;
-          const tab = table[cell];
-          const j = 3 * cell;
-          let outs = tab >= 0 ? tab >> (2 * (values[tableIn[j]] | (values[tableIn[j + 1]] << 1) | (values[tableIn[j + 2]] << 2))) : evalCell(c, cell, values);
+          const j = 4 * cell;
+          const in0 = tableIn[j];
+          let outs =
+            in0 >= 0
+              ? table[cell] >> (2 * (values[in0] | (values[tableIn[j + 1]] << 1) | (values[tableIn[j + 2]] << 2) | (values[tableIn[j + 3]] << 3)))
+              : evalCell(c, cell, values);
           for (let pin = outStart[cell], end = outStart[cell + 1]; pin < end; pin++, outs >>= 1) {
             const v = outs & 1;
             const st = state[pin];

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { compile, evalPin, K_FA, K_EXPR, settleValues } from '../../src/engine/compile';
+import { compile, evalCell, evalPin, K_FA, K_EXPR, settleValues } from '../../src/engine/compile';
 import { EngineError } from '../../src/engine/errors';
 import type { Expr } from '../../src/engine/model';
 import { flatOf, randomNetlistArb, zeroDelayEval } from './support/flat-gen';
@@ -167,6 +167,25 @@ describe('compile: evaluation', () => {
     const values = new Uint8Array(c.netCount);
     values[0] = 1;
     expect(evalPin(c, 0, values)).toBe(1);
+  });
+
+  it('tabulates every cell of up to 4 inputs and 2 outputs, as evalCell computes it', () => {
+    fc.assert(
+      fc.property(randomNetlistArb(), fc.array(fc.integer({ min: 0, max: 1 }), { minLength: 200, maxLength: 200 }), ({ flat }, bits) => {
+        const c = compile(flat);
+        const values = Uint8Array.from({ length: c.netCount }, (_, net) => bits[net % bits.length]);
+        for (let cell = 0; cell < c.cellCount; cell++) {
+          const inputs = c.inStart[cell + 1] - c.inStart[cell];
+          const [in0, in1, in2, in3] = c.tableIn.subarray(4 * cell, 4 * cell + 4);
+          expect(in0 >= 0, `cell ${cell}`).toBe(inputs <= 4);
+          if (in0 < 0) continue;
+          const idx = values[in0] | (values[in1] << 1) | (values[in2] << 2) | (values[in3] << 3);
+          const outputs = c.outStart[cell + 1] - c.outStart[cell];
+          expect((c.table[cell] >> (2 * idx)) & ((1 << outputs) - 1), `cell ${cell}`).toBe(evalCell(c, cell, values));
+        }
+      }),
+      { numRuns: 300 },
+    );
   });
 
   it('settles random netlists to an independent zero-delay evaluation', () => {
