@@ -203,21 +203,19 @@ export class TimingSimulator {
       this.settle(inputs);
       return this.result();
     }
-    const inputNets = this.c.inputNets;
-    const values = this.values;
-    const wheel = this.wheel;
-    const base = this.c.pinCount;
+    const { inputNets, pinCount } = this.c;
+    const { values, wheel, state, netFlags, transport } = this;
     wheel.rewind();
     // Changed inputs are events at time 0, applied in input order like any other batch.
     for (let i = 0; i < inputNets.length; i++) {
       const v = inputs[i] ? 1 : 0;
       const net = inputNets[i];
       if (values[net] === v) continue;
-      if (this.transport) {
+      if (transport) {
         wheel.schedule(0, net, v);
       } else {
-        this.state[base + i] = v | this.netFlags[net];
-        wheel.place(base + i, 0);
+        state[pinCount + i] = v | netFlags[net];
+        wheel.place(pinCount + i, 0);
       }
     }
     this.run();
