@@ -113,7 +113,7 @@ export class TimingSimulator {
   private readonly dirty: Int32Array;
   private readonly isDirty: Uint8Array;
 
-  /** Per net: Flag.Deferred and Flag.Observed. */
+  /** Per net: its Flag.Deferred and Flag.Observed. */
   private readonly netFlags: Uint8Array;
   /** Deferred nets touched at the present time, with their value before it (UNTOUCHED otherwise, so nothing is reset per step). */
   private readonly touched: Int32Array;
@@ -161,7 +161,7 @@ export class TimingSimulator {
     this.idNet = new Int32Array(ids);
     this.idNet.set(compiled.outNets);
     this.idNet.set(compiled.inputNets, pinCount);
-    this.netFlags = deferredNets(compiled, this.transport, this.logging);
+    this.netFlags = deferredFlags(compiled, this.transport, this.logging);
     this.dirty = new Int32Array(cellCount);
     this.isDirty = new Uint8Array(cellCount);
     this.touched = new Int32Array(netCount);
@@ -440,7 +440,7 @@ export class TimingSimulator {
  * steps schedules twice for one time, and delta steps need a zero delay
  * anywhere.
  */
-function deferredNets(c: CompiledNetlist, transport: boolean, logging: boolean): Uint8Array {
+function deferredFlags(c: CompiledNetlist, transport: boolean, logging: boolean): Uint8Array {
   const flags = new Uint8Array(c.netCount);
   if (logging) return flags.fill(Flag.Deferred);
   const zero = (pin: number) => c.rise[pin] === 0 || c.fall[pin] === 0;
