@@ -18,7 +18,10 @@
  * its delta steps.
  */
 
-const NONE = -1;
+/** The end of a list, or no time; a const enum so the hot methods see a literal, not a module variable. */
+const enum Id {
+  None = -1,
+}
 /** Ring size cap: beyond 64 Ki buckets the overflow list takes the far events. */
 const MAX_RING_BITS = 16;
 
@@ -30,7 +33,7 @@ export class TimingWheel {
   /** Per event: the next one in its list (read it with `nextOf` or directly in a hot loop). */
   next: Int32Array;
   private prev: Int32Array;
-  private freeHead = NONE;
+  private freeHead = Id.None;
   private used: number;
   private readonly reserved: number;
 
@@ -40,7 +43,7 @@ export class TimingWheel {
   private readonly tail: Int32Array;
   private readonly overflow: number;
   /** Latest time put in the ring since the last rewind: `advance` looks no further. */
-  private horizon = NONE;
+  private horizon = Id.None;
   private overflowCount = 0;
   /** At most the earliest overflow time (a cancel may leave it early, which is safe). */
   private overflowMin = 0;
@@ -54,8 +57,8 @@ export class TimingWheel {
     const size = 1 << bits;
     this.mask = size - 1;
     this.overflow = size;
-    this.head = new Int32Array(size + 1).fill(NONE);
-    this.tail = new Int32Array(size + 1).fill(NONE);
+    this.head = new Int32Array(size + 1).fill(Id.None);
+    this.tail = new Int32Array(size + 1).fill(Id.None);
     this.reserved = reserved;
     this.used = reserved;
     const n = Math.max(capacity, reserved, 1);
@@ -73,7 +76,7 @@ export class TimingWheel {
   /** True when no event is queued (scans the ring: for tests and checks, not hot loops). */
   get empty(): boolean {
     if (this.overflowCount > 0) return false;
-    for (let t = this.now; t <= this.horizon; t++) if (this.head[t & this.mask] !== NONE) return false;
+    for (let t = this.now; t <= this.horizon; t++) if (this.head[t & this.mask] !== Id.None) return false;
     return true;
   }
 
@@ -99,8 +102,8 @@ export class TimingWheel {
     }
     const last = this.tail[s];
     this.prev[ev] = last;
-    this.next[ev] = NONE;
-    if (last === NONE) this.head[s] = ev;
+    this.next[ev] = Id.None;
+    if (last === Id.None) this.head[s] = ev;
     else this.next[last] = ev;
     this.tail[s] = ev;
   }
@@ -112,9 +115,9 @@ export class TimingWheel {
     const s = time - this.now > this.mask ? this.overflow : time & this.mask;
     const p = this.prev[ev];
     const n = this.next[ev];
-    if (p === NONE) this.head[s] = n;
+    if (p === Id.None) this.head[s] = n;
     else this.next[p] = n;
-    if (n === NONE) this.tail[s] = p;
+    if (n === Id.None) this.tail[s] = p;
     else this.prev[n] = p;
     if (s === this.overflow) this.overflowCount--;
   }
@@ -128,14 +131,14 @@ export class TimingWheel {
     const mask = this.mask;
     for (;;) {
       for (let t = this.now, end = this.horizon; t <= end; t++) {
-        if (head[t & mask] === NONE) continue;
+        if (head[t & mask] === Id.None) continue;
         this.now = t;
         // Overflow events come into the ring before anything else is scheduled for their time (FIFO).
         if (this.overflowCount > 0 && this.overflowMin - t <= mask) this.migrate();
         return t;
       }
       if (this.horizon >= this.now) this.now = this.horizon + 1;
-      if (this.overflowCount === 0) return NONE;
+      if (this.overflowCount === 0) return Id.None;
       if (this.overflowMin > this.now) this.now = this.overflowMin;
       this.migrate();
     }
@@ -148,8 +151,8 @@ export class TimingWheel {
   take(): number {
     const b = this.now & this.mask;
     const first = this.head[b];
-    this.head[b] = NONE;
-    this.tail[b] = NONE;
+    this.head[b] = Id.None;
+    this.tail[b] = Id.None;
     return first;
   }
 
@@ -165,18 +168,18 @@ export class TimingWheel {
 
   /** Restart time at 0 on an empty queue (the next vector). */
   rewind(): void {
-    if (this.advance() !== NONE) throw new Error('TimingWheel.rewind: events are still queued');
+    if (this.advance() !== Id.None) throw new Error('TimingWheel.rewind: events are still queued');
     this.now = 0;
-    this.horizon = NONE;
+    this.horizon = Id.None;
   }
 
   /** Drop every queued event and restart time at 0. */
   clear(): void {
-    this.head.fill(NONE);
-    this.tail.fill(NONE);
-    this.horizon = NONE;
+    this.head.fill(Id.None);
+    this.tail.fill(Id.None);
+    this.horizon = Id.None;
     this.overflowCount = 0;
-    this.freeHead = NONE;
+    this.freeHead = Id.None;
     this.used = this.reserved;
     this.now = 0;
   }
@@ -185,9 +188,9 @@ export class TimingWheel {
   private migrate(): void {
     const s = this.overflow;
     let ev = this.head[s];
-    this.head[s] = this.tail[s] = NONE;
+    this.head[s] = this.tail[s] = Id.None;
     this.overflowCount = 0;
-    while (ev !== NONE) {
+    while (ev !== Id.None) {
       const after = this.next[ev];
       this.place(ev, this.time[ev]);
       ev = after;
@@ -195,7 +198,7 @@ export class TimingWheel {
   }
 
   private allocate(): number {
-    if (this.freeHead !== NONE) {
+    if (this.freeHead !== Id.None) {
       const ev = this.freeHead;
       this.freeHead = this.next[ev];
       return ev;
