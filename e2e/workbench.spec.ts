@@ -77,7 +77,10 @@ test('a new owner sets up a project end to end', async ({ page }) => {
   const revisions = page.getByRole('table', { name: 'revisions' });
   await expect(revisions.getByRole('button', { name: 'r1' })).toBeVisible();
   await expect(revisions.getByText('add2.v')).toBeVisible();
-  await expect(page.getByText('module add2')).toBeVisible();
+  // The engine read the upload: a lint-clean 2-bit adder, and the text itself below.
+  await expect(page.getByText('✓ lint clean')).toBeVisible();
+  await expect(page.getByText('2-bit adder')).toBeVisible();
+  await expect(page.locator('pre').getByText('module add2')).toBeVisible();
 
   // The project table shows it as the latest revision.
   await page.goto(projectUrl);
