@@ -3,7 +3,7 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { useForm } from 'react-hook-form';
 import { z } from 'zod';
 import { NETLIST_KINDS, netlistDescription, netlistKind, netlistName, netlistWidth, type NetlistKind } from '../lib/rules';
-import { Field, Notice } from './ui';
+import { Field, FormActions } from './ui';
 
 // Form fields arrive as strings; the width is coerced, then held to the API's rule.
 const netlistForm = z.object({
@@ -47,19 +47,7 @@ export function NetlistForm({ initial, submitLabel, pending, error, onSubmit, on
       <Field label="Description (optional)" error={formState.errors.description}>
         <input className="field" {...register('description')} />
       </Field>
-      <div className="flex items-end gap-2">
-        <button className="btn btn-primary" disabled={pending}>
-          {submitLabel}
-        </button>
-        <button type="button" className="btn" onClick={onCancel}>
-          Cancel
-        </button>
-      </div>
-      {error && (
-        <div className="md:col-span-5">
-          <Notice tone="bad">{error.message}</Notice>
-        </div>
-      )}
+      <FormActions submitLabel={submitLabel} pending={pending} onCancel={onCancel} error={error} columns={5} />
     </form>
   );
 }

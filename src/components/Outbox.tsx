@@ -1,4 +1,5 @@
 /** The fake outbox: every e-mail the app sent while no SMTP server is configured. */
+import type { OutboxMessage } from '../lib/mail';
 import { useQuery } from '@tanstack/react-query';
 import { useState } from 'react';
 import { api } from './api';
@@ -6,15 +7,7 @@ import { utc } from './format';
 import { withQuery } from './query';
 import { ErrorText, Loading, Panel } from './ui';
 
-interface Message {
-  id: string;
-  to: string;
-  from: string;
-  subject: string;
-  date: string;
-  text: string;
-  links: string[];
-}
+type Message = OutboxMessage;
 
 /** Render the text with its links clickable. */
 function Linked({ text }: { text: string }) {

@@ -3,7 +3,7 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { useForm } from 'react-hook-form';
 import { z } from 'zod';
 import { projectDescription, projectName } from '../lib/rules';
-import { Field, Notice } from './ui';
+import { Field, FormActions } from './ui';
 
 const projectForm = z.object({ name: projectName, description: projectDescription });
 export type ProjectFormValues = z.infer<typeof projectForm>;
@@ -28,19 +28,7 @@ export function ProjectForm({ initial, submitLabel, pending, error, onSubmit, on
       <Field label="Description (optional)" error={formState.errors.description}>
         <input className="field" {...register('description')} />
       </Field>
-      <div className="flex items-end gap-2">
-        <button className="btn btn-primary" disabled={pending}>
-          {submitLabel}
-        </button>
-        <button type="button" className="btn" onClick={onCancel}>
-          Cancel
-        </button>
-      </div>
-      {error && (
-        <div className="md:col-span-3">
-          <Notice tone="bad">{error.message}</Notice>
-        </div>
-      )}
+      <FormActions submitLabel={submitLabel} pending={pending} onCancel={onCancel} error={error} columns={3} />
     </form>
   );
 }

@@ -96,3 +96,27 @@ export function ErrorText({ error }: { error: unknown }) {
     </div>
   );
 }
+
+/** The end of a small inline form: submit and cancel, and the server's refusal beneath, across the form's columns. */
+export function FormActions({ submitLabel, pending, onCancel, error, columns }: { submitLabel: ReactNode; pending: boolean; onCancel: () => void; error?: { message: string } | null; columns: number }) {
+  return (
+    <>
+      <div className="flex items-end gap-2">
+        <button className="btn btn-primary" disabled={pending}>
+          {submitLabel}
+        </button>
+        <button type="button" className="btn" onClick={onCancel}>
+          Cancel
+        </button>
+      </div>
+      {error && (
+        // Tailwind sees whole class names only, so the span is looked up rather than built.
+        <div className={COLUMN_SPAN[columns]}>
+          <Notice tone="bad">{error.message}</Notice>
+        </div>
+      )}
+    </>
+  );
+}
+
+const COLUMN_SPAN: Record<number, string> = { 3: 'md:col-span-3', 5: 'md:col-span-5' };
