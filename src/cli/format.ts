@@ -8,6 +8,23 @@ export const hex = (v: bigint): string => '0x' + v.toString(16);
 
 export const pathJson = (path: PathEntry[]) => path.map((p) => ({ net: p.net, cell: p.cell, time: p.time }));
 
+/** A JSON document given as consecutive pieces of its text, so a long one is never one giant string. */
+export class JsonChunks {
+  constructor(readonly chunks: Iterable<string>) {}
+}
+
+/** `sim --json` (SPEC §7), written a few thousand steps at a time. */
+export function* simJsonChunks(steps: AdderStep[], per = 4096): Generator<string> {
+  yield '{"steps":[';
+  for (let start = 0; start < steps.length; start += per) {
+    const part = steps.slice(start, start + per).map((s) =>
+      JSON.stringify({ a: hex(s.a), b: hex(s.b), cin: hex(s.cin), sum: hex(s.sum), settle: s.settle, lastEvent: s.lastEvent, outputChanges: s.outputChanges }),
+    );
+    yield (start > 0 ? ',' : '') + part.join(',');
+  }
+  yield ']}';
+}
+
 export function formatLint(r: LintResult): string {
   const lines: string[] = [];
   for (const f of r.errors) lines.push(`error   ${f.code.padEnd(18)} ${f.where}: ${f.message}`);

@@ -22,7 +22,7 @@ import { simulateAdderVcd } from '../engine/vcd';
 import { isMainThread } from 'node:worker_threads';
 import { serveShard, simulateInParallel } from './parallel-sim';
 import { parseCli, UsageError, USAGE, type CliArgs } from './args';
-import { formatLint, formatSim, formatTiming, hex, pathJson } from './format';
+import { formatLint, formatSim, formatTiming, hex, JsonChunks, pathJson, simJsonChunks } from './format';
 
 /** A failed check of the design (exit 1), with what to print. */
 class DesignFailure {
@@ -100,17 +100,7 @@ async function runSim(args: CliArgs): Promise<Output> {
     steps = await simulateInParallel(import.meta.url, adder.design, { ...options(args), mode }, vectors);
   }
   return {
-    json: () => ({
-      steps: steps.map((s) => ({
-        a: hex(s.a),
-        b: hex(s.b),
-        cin: hex(s.cin),
-        sum: hex(s.sum),
-        settle: s.settle,
-        lastEvent: s.lastEvent,
-        outputChanges: s.outputChanges,
-      })),
-    }),
+    json: () => new JsonChunks(simJsonChunks(steps)),
     text: () => formatSim(steps, adder.ports.width),
   };
 }
@@ -179,7 +169,12 @@ const COMMAND_RUNNERS: Record<CliArgs['command'], (args: CliArgs) => Output | Pr
 
 /** JSON with BigInt-free values (the runners already turn numbers into hex strings). */
 function printJson(value: unknown): void {
-  process.stdout.write(JSON.stringify(value) + '\n');
+  if (value instanceof JsonChunks) {
+    for (const chunk of value.chunks) process.stdout.write(chunk);
+    process.stdout.write('\n');
+  } else {
+    process.stdout.write(JSON.stringify(value) + '\n');
+  }
 }
 
 export async function main(argv: string[]): Promise<number> {
