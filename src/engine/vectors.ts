@@ -20,28 +20,33 @@ const DEC = /^[0-9]+$/;
 export function parseVectors(text: string, fileName: string, opts: VectorFileOptions): Vector[] {
   const limit = 1n << BigInt(opts.width);
   const vectors: Vector[] = [];
-  text.split(/\r?\n/).forEach((raw, i) => {
-    const line = i + 1;
-    const fail = (message: string, column = 1): never => {
-      throw new EngineError('bad-vectors', `${fileName}:${line}: ${message}`, { where: fileName, loc: { line, column } });
-    };
-    const code = raw.replace(/#.*/, '');
-    const tokens = [...code.matchAll(/\S+/g)].map((m) => ({ text: m[0], column: m.index! + 1 }));
-    if (tokens.length === 0) return;
-    if (tokens.length !== 3) fail(`expected three numbers 'A B CIN', found ${tokens.length}`);
-    const [a, b, cin] = tokens.map(({ text, column }, k) => {
-      if (!HEX.test(text) && !DEC.test(text)) {
-        fail(`${'A B CIN'.split(' ')[k]} '${text}' is not a number (hexadecimal with 0x, or decimal)`, column);
+  const lines = text.split('\n');
+  for (let i = 0; i < lines.length; i++) {
+    // Plain string work per line: a vector file can hold millions of lines.
+    let code = lines[i];
+    const hash = code.indexOf('#');
+    if (hash >= 0) code = code.slice(0, hash);
+    const words = code.trim().split(/\s+/);
+    if (words.length === 1 && words[0] === '') continue;
+    if (words.length !== 3) vectorError(fileName, i + 1, `expected three numbers 'A B CIN', found ${words.length}`, lines[i]);
+    const [a, b, cin] = words.map((word, k) => {
+      if (!HEX.test(word) && !DEC.test(word)) {
+        vectorError(fileName, i + 1, `${'A B CIN'.split(' ')[k]} '${word}' is not a number (hexadecimal with 0x, or decimal)`, lines[i], word);
       }
-      return { value: BigInt(text), text, column };
+      return BigInt(word);
     });
-    for (const [name, operand] of [['A', a], ['B', b]] as const) {
-      if (operand.value >= limit) fail(`${name} = ${operand.text} is wider than the adder's ${opts.width} bits`, operand.column);
-    }
-    if (cin.value > 1n) fail(`CIN must be 0 or 1, found ${cin.text}`, cin.column);
-    if (cin.value === 1n && opts.hasCin === false) fail('CIN is 1 but the design has no carry-in', cin.column);
-    vectors.push({ a: a.value, b: b.value, cin: cin.value });
-  });
+    if (a >= limit) vectorError(fileName, i + 1, `A = ${words[0]} is wider than the adder's ${opts.width} bits`, lines[i], words[0]);
+    if (b >= limit) vectorError(fileName, i + 1, `B = ${words[1]} is wider than the adder's ${opts.width} bits`, lines[i], words[1]);
+    if (cin > 1n) vectorError(fileName, i + 1, `CIN must be 0 or 1, found ${words[2]}`, lines[i], words[2]);
+    if (cin === 1n && opts.hasCin === false) vectorError(fileName, i + 1, 'CIN is 1 but the design has no carry-in', lines[i], words[2]);
+    vectors.push({ a, b, cin });
+  }
   if (vectors.length === 0) throw new EngineError('bad-vectors', `${fileName}: no vectors (one a line: A B CIN)`, { where: fileName });
   return vectors;
+}
+
+/** `file:line: message`, with the column of the offending word when there is one. */
+function vectorError(fileName: string, line: number, message: string, text: string, word?: string): never {
+  const column = word === undefined ? 1 : text.indexOf(word) + 1;
+  throw new EngineError('bad-vectors', `${fileName}:${line}: ${message}`, { where: fileName, loc: { line, column } });
 }
