@@ -9,14 +9,15 @@
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
+import { availableParallelism } from 'node:os';
 import { join } from 'node:path';
-import { AdderHarness } from '../src/engine/adder';
 import { generateAdder } from '../src/engine/generate';
 import { writeDesignJson } from '../src/engine/json';
 import { prepareAdder } from '../src/engine/pipeline';
 import { SeededRandom, randomVector, type Vector } from '../src/engine/random';
 import { topologicalDelay } from '../src/engine/topo';
 import { writeVerilog } from '../src/engine/verilog/write';
+import { benchEngineSpeed } from './engine-speed';
 import { compileIverilog, readSteps, writeAdderTestbench } from './iverilog-adder';
 
 const VECTORS = 200_000;
@@ -59,9 +60,13 @@ export function benchSimVsVvp() {
   const vvp = timed('vvp', ['-n', image], dir);
   const vvpSteps = readSteps(dir);
 
-  // Skiplane: the whole command-line process.
+  // Skiplane: the whole command-line process, on one thread and on every core.
   const root = join(import.meta.dirname, '..');
-  const ours = timed('npm', ['run', '--silent', '--prefix', root, 'skiplane', '--', 'sim', join(dir, 'dut.json'), '--vectors', join(dir, 'vectors.txt'), '--json'], dir, join(dir, 'ours.json'));
+  const skiplane = (threads: string[], out: string) =>
+    timed('npm', ['run', '--silent', '--prefix', root, 'skiplane', '--', 'sim', join(dir, 'dut.json'), '--vectors', join(dir, 'vectors.txt'), '--json', ...threads], dir, join(dir, out));
+  const oneThread = skiplane(['--threads', '1'], 'ours-1.json');
+  const ours = skiplane([], 'ours.json');
+  if (readFileSync(join(dir, 'ours-1.json'), 'utf8') !== readFileSync(join(dir, 'ours.json'), 'utf8')) throw new Error('one thread and several threads gave different steps');
   const steps = (JSON.parse(readFileSync(join(dir, 'ours.json'), 'utf8')) as { steps: { sum: string; settle: number }[] }).steps;
 
   // Agreement on every vector (the first only sets the settled state).
@@ -73,32 +78,30 @@ export function benchSimVsVvp() {
     }
   }
 
-  // Net changes (events) of the same run, counted in-process; also the engine's own speed without start-up.
-  const harness = new AdderHarness(adder.compiled, ports, { mode: 'inertial', recordChanges: true });
-  let netChanges = 0;
-  for (const v of vectors) netChanges += harness.apply(v).changes?.length ?? 0;
-  const plain = new AdderHarness(adder.compiled, ports, { mode: 'inertial' });
-  const t0 = performance.now();
-  for (const v of vectors) plain.apply(v);
-  const engineSeconds = (performance.now() - t0) / 1000;
+  // Net changes of the same vectors and the engine's own speed without start-up (same design, seed and count).
+  const engine = benchEngineSpeed({ vectors: VECTORS, runs: 3 });
+  const netChanges = engine.netChanges;
 
   const result = {
     design: `${design.top}: 32-bit carry-skip, 8 blocks of 4, default delay table, ${adder.compiled.cellCount} cells, topological delay ${topo} ps`,
     vectors: VECTORS,
     seed: SEED,
     netChanges,
-    skiplaneProcess: { seconds: ours.seconds, vectorsPerSecond: VECTORS / ours.seconds, netChangesPerSecond: netChanges / ours.seconds, peakMiB: ours.peakKiB / 1024 },
-    skiplaneEngineOnly: { seconds: engineSeconds, vectorsPerSecond: VECTORS / engineSeconds, netChangesPerSecond: netChanges / engineSeconds },
+    skiplaneProcessOneThread: { seconds: oneThread.seconds, vectorsPerSecond: VECTORS / oneThread.seconds, peakMiB: oneThread.peakKiB / 1024 },
+    skiplaneProcess: { threads: Math.min(4, availableParallelism()), seconds: ours.seconds, vectorsPerSecond: VECTORS / ours.seconds, netChangesPerSecond: netChanges / ours.seconds, peakMiB: ours.peakKiB / 1024 },
+    skiplaneEngineOnly: engine,
     vvp: { version: vvpVersion, seconds: vvp.seconds, vectorsPerSecond: VECTORS / vvp.seconds, netChangesPerSecond: netChanges / vvp.seconds, peakMiB: vvp.peakKiB / 1024 },
     ratio: vvp.seconds / ours.seconds,
+    ratioOneThread: vvp.seconds / oneThread.seconds,
     disagreements,
   };
   const f = (n: number) => Math.round(n).toLocaleString('en-US');
   console.log(`sim vs vvp — ${result.design}; ${f(VECTORS)} vectors, ${f(netChanges)} net changes`);
-  console.log(`  skiplane sim (process): ${ours.seconds.toFixed(2)} s, ${f(result.skiplaneProcess.vectorsPerSecond)} vectors/s, ${f(result.skiplaneProcess.netChangesPerSecond)} net changes/s, peak ${result.skiplaneProcess.peakMiB.toFixed(0)} MiB`);
-  console.log(`  skiplane engine only:   ${engineSeconds.toFixed(2)} s, ${f(result.skiplaneEngineOnly.vectorsPerSecond)} vectors/s, ${f(result.skiplaneEngineOnly.netChangesPerSecond)} net changes/s`);
+  console.log(`  skiplane sim --threads 1 (process): ${oneThread.seconds.toFixed(2)} s, ${f(result.skiplaneProcessOneThread.vectorsPerSecond)} vectors/s, peak ${result.skiplaneProcessOneThread.peakMiB.toFixed(0)} MiB`);
+  console.log(`  skiplane sim, ${result.skiplaneProcess.threads} threads (process): ${ours.seconds.toFixed(2)} s, ${f(result.skiplaneProcess.vectorsPerSecond)} vectors/s, ${f(result.skiplaneProcess.netChangesPerSecond)} net changes/s, peak ${result.skiplaneProcess.peakMiB.toFixed(0)} MiB`);
+  console.log(`  skiplane engine only, one thread (best of 3, CPU time): ${(engine.cpuMs / 1000).toFixed(2)} s, ${f(engine.vectorsPerSecond)} vectors/s, ${f(engine.netChangesPerSecond)} net changes/s`);
   console.log(`  vvp (${vvpVersion}): ${vvp.seconds.toFixed(2)} s, ${f(result.vvp.vectorsPerSecond)} vectors/s, ${f(result.vvp.netChangesPerSecond)} net changes/s, peak ${result.vvp.peakMiB.toFixed(0)} MiB`);
-  console.log(`  ratio (vvp time / skiplane time): ${result.ratio.toFixed(1)}x  (target ≥ 10x, aim 30x); settle-time disagreements: ${disagreements}`);
+  console.log(`  ratio (vvp time / skiplane time): ${result.ratio.toFixed(1)}x on ${result.skiplaneProcess.threads} threads, ${result.ratioOneThread.toFixed(1)}x on one (target ≥ 10x, aim 30x); settle-time disagreements: ${disagreements}`);
   if (disagreements > 0) throw new Error(`${disagreements} vectors disagree between skiplane and vvp`);
   return result;
 }

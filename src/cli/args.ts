@@ -27,12 +27,14 @@ export interface CliArgs {
   blocks?: number[];
   out?: string;
   top?: string;
+  /** sim: how many threads share the vectors (default: the cores, at most 4). */
+  threads?: number;
 }
 
 export const USAGE = `usage: skiplane COMMAND FILE [options]
   lint FILE                                  check a netlist for structural errors
   timing FILE [--pairs exhaustive | --pairs random N] [--seed S]
-  sim FILE --vectors VFILE [--vcd OUT]       time a sequence of vectors
+  sim FILE --vectors VFILE [--vcd OUT] [--threads N]  time a sequence of vectors
   generate ripple|skip --width N [--block M | --blocks 4,4,4,4] [--out OUT]
   export FILE --out OUT                      convert between .v and .json
 common options: --json, --map a=x,b=y,cin=c0,sum=z,cout=c16, --transport, --delays FILE, --top NAME`;
@@ -65,6 +67,7 @@ export function parseCli(argv: string[]): CliArgs {
         blocks: { type: 'string' },
         out: { type: 'string' },
         top: { type: 'string' },
+        threads: { type: 'string' },
         help: { type: 'boolean', short: 'h', default: false },
       },
     });
@@ -100,6 +103,7 @@ export function parseCli(argv: string[]): CliArgs {
     args.seed = BigInt(v.seed);
   }
   if (v.width !== undefined) args.width = wholeNumber('--width', v.width, 1);
+  if (v.threads !== undefined) args.threads = wholeNumber('--threads', v.threads, 1);
   if (v.block !== undefined) args.block = wholeNumber('--block', v.block, 1);
   if (v.blocks !== undefined) {
     args.blocks = v.blocks.split(',').map((s) => wholeNumber('--blocks', s.trim(), 1));

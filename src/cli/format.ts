@@ -13,14 +13,18 @@ export class JsonChunks {
   constructor(readonly chunks: Iterable<string>) {}
 }
 
-/** `sim --json` (SPEC §7), written a few thousand steps at a time. */
-export function* simJsonChunks(steps: AdderStep[], per = 4096): Generator<string> {
+/** One step of `sim --json` (SPEC §7). */
+export function stepJson(s: AdderStep): string {
+  return JSON.stringify({ a: hex(s.a), b: hex(s.b), cin: hex(s.cin), sum: hex(s.sum), settle: s.settle, lastEvent: s.lastEvent, outputChanges: s.outputChanges });
+}
+
+/** `sim --json` from the steps' JSON texts, in order. */
+export function* simJsonChunks(stepTexts: Iterable<string>): Generator<string> {
   yield '{"steps":[';
-  for (let start = 0; start < steps.length; start += per) {
-    const part = steps.slice(start, start + per).map((s) =>
-      JSON.stringify({ a: hex(s.a), b: hex(s.b), cin: hex(s.cin), sum: hex(s.sum), settle: s.settle, lastEvent: s.lastEvent, outputChanges: s.outputChanges }),
-    );
-    yield (start > 0 ? ',' : '') + part.join(',');
+  let first = true;
+  for (const text of stepTexts) {
+    yield (first ? '' : ',') + text;
+    first = false;
   }
   yield ']}';
 }

@@ -20,9 +20,9 @@ import { parseVectors } from '../engine/vectors';
 import { writeVerilog } from '../engine/verilog/write';
 import { simulateAdderVcd } from '../engine/vcd';
 import { isMainThread } from 'node:worker_threads';
-import { serveShard, simulateInParallel } from './parallel-sim';
+import { serveShard, simulateVectorFile } from './parallel-sim';
 import { parseCli, UsageError, USAGE, type CliArgs } from './args';
-import { formatLint, formatSim, formatTiming, hex, JsonChunks, pathJson, simJsonChunks } from './format';
+import { formatLint, formatSim, formatTiming, hex, JsonChunks, pathJson, simJsonChunks, stepJson } from './format';
 
 /** A failed check of the design (exit 1), with what to print. */
 class DesignFailure {
@@ -86,23 +86,23 @@ function runLint(args: CliArgs): Output {
 
 async function runSim(args: CliArgs): Promise<Output> {
   const { adder } = prepare(args);
-  const vectors = parseVectors(readText(args.vectors!, 'vectors'), args.vectors!, {
-    width: adder.ports.width,
-    hasCin: adder.ports.cin !== null,
-  });
   const mode = args.transport ? 'transport' : 'inertial';
-  let steps;
+  const text = readText(args.vectors!, 'vectors');
+  const width = adder.ports.width;
   if (args.vcd) {
+    // A trace needs every change of every vector in one run: one thread.
+    const vectors = parseVectors(text, args.vectors!, { width, hasCin: adder.ports.cin !== null });
     const traced = simulateAdderVcd(adder.flat, adder.compiled, adder.ports, vectors, { mode });
     writeText(args.vcd, traced.vcd);
-    steps = traced.steps;
-  } else {
-    steps = await simulateInParallel(import.meta.url, adder.design, { ...options(args), mode }, vectors);
+    return { json: () => new JsonChunks(simJsonChunks(traced.steps.map(stepJson))), text: () => formatSim(traced.steps, width) };
   }
-  return {
-    json: () => new JsonChunks(simJsonChunks(steps)),
-    text: () => formatSim(steps, adder.ports.width),
-  };
+  const request = { design: adder.design, ...options(args), mode, text, fileName: args.vectors! } as const;
+  if (args.json) {
+    const run = await simulateVectorFile(import.meta.url, { ...request, form: 'json' }, args.threads);
+    return { json: () => new JsonChunks(simJsonChunks(run.json)), text: () => '' };
+  }
+  const run = await simulateVectorFile(import.meta.url, { ...request, form: 'steps' }, args.threads);
+  return { json: () => null, text: () => formatSim(run.steps, width) };
 }
 
 function runTiming(args: CliArgs): Output {

@@ -110,10 +110,18 @@ describe('skiplane sim on many vectors (shared out over threads)', () => {
     const { prepareAdder } = await import('../../src/engine/pipeline');
     const { runVectors } = await import('../../src/engine/adder');
     const { SeededRandom, randomVector } = await import('../../src/engine/random');
-    const { PARALLEL_MIN_VECTORS } = await import('../../src/cli/parallel-sim');
+    const { PARALLEL_MIN_BYTES } = await import('../../src/cli/parallel-sim');
     const rng = new SeededRandom(5);
-    const vectors = Array.from({ length: PARALLEL_MIN_VECTORS + 5001 }, () => randomVector(rng, 8, true));
-    writeFileSync(join(dir, 'many.txt'), vectors.map((v) => `0x${v.a.toString(16)} ${v.b} ${v.cin}`).join('\n'));
+    const vectors = [];
+    const lines = ['# many vectors, with comments and blank lines between them'];
+    for (let size = 0; size < 2 * PARALLEL_MIN_BYTES; ) {
+      const v = randomVector(rng, 8, true);
+      vectors.push(v);
+      const line = `0x${v.a.toString(16)} ${v.b} ${v.cin}${vectors.length % 97 === 0 ? '  # note' : ''}`;
+      lines.push(line, ...(vectors.length % 1000 === 0 ? ['', '# next thousand'] : []));
+      size += line.length + 1;
+    }
+    writeFileSync(join(dir, 'many.txt'), lines.join('\n'));
     const r = skiplane('sim', 'skip8.v', '--vectors', 'many.txt', '--json');
     expect(r.code).toBe(0);
     const { steps } = JSON.parse(r.stdout);
@@ -126,6 +134,17 @@ describe('skiplane sim on many vectors (shared out over threads)', () => {
         expect({ i, ...s }).toEqual({ i, sum: '0x' + want.sum.toString(16), settle: want.settle, lastEvent: want.lastEvent, outputChanges: want.outputChanges });
       }
     });
+    // One thread gives the same document.
+    expect(skiplane('sim', 'skip8.v', '--vectors', 'many.txt', '--json', '--threads', '1').stdout).toBe(r.stdout);
+  });
+
+  it('reports a bad line deep in a long file with its own line number', async () => {
+    const { PARALLEL_MIN_BYTES } = await import('../../src/cli/parallel-sim');
+    const count = Math.ceil((2 * PARALLEL_MIN_BYTES) / 10);
+    const lines = Array.from({ length: count }, (_, i) => `0x${(i % 256).toString(16)} 3 1`);
+    lines[count - 5] = '0x1 0x2';
+    writeFileSync(join(dir, 'bad-late.txt'), lines.join('\n'));
+    expectUsageError(skiplane('sim', 'skip8.v', '--vectors', 'bad-late.txt'), new RegExp(`bad-late\\.txt:${count - 4}: expected three numbers`));
   });
 });
 
