@@ -72,7 +72,11 @@ export function formatTiming(r: TimingReport, search: PairSearch): string {
   }
   if (r.falsePath === true) lines.push(`false path: no vector pair sensitizes the ${r.topological.delay} ps topological path; the true worst case is ${r.worst?.delay} ps`);
   else if (r.falsePath === false) lines.push('the topological critical path is sensitized by the pair above');
-  else lines.push(`no pair tried reached the topological delay; with random pairs it is not known whether that path is false`);
+  else if (r.worst) {
+    lines.push(
+      `the ${r.topological.delay} ps topological path was not sensitized by any of the ${r.pairs} vector pairs tried (slowest ${r.worst.delay} ps); random pairs cannot show whether it is a false path`,
+    );
+  }
   lines.push('Simulated delays are estimates; sign-off follows your team\'s own flow.');
   return lines.join('\n');
 }
