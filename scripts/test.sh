@@ -18,11 +18,25 @@ if [ ${#missing[@]} -gt 0 ]; then
   fi
 fi
 
+reports=.test-reports
+rm -rf "$reports" && mkdir -p "$reports"
+
 echo "[test] vitest"
-npx vitest run
+npx vitest run --reporter=default --reporter=json --outputFile.json="$reports/vitest.json"
 
 echo "[test] build"
 npx astro build
 
 echo "[test] playwright"
-npx playwright test
+PLAYWRIGHT_JSON_OUTPUT_NAME="$reports/playwright.json" npx playwright test --reporter=list,json
+
+# One closing line for both runners: "N passed, N failed".
+node -e '
+const fs = require("fs");
+const v = JSON.parse(fs.readFileSync(process.argv[1], "utf8"));
+const p = JSON.parse(fs.readFileSync(process.argv[2], "utf8")).stats;
+const passed = v.numPassedTests + p.expected;
+const failed = v.numFailedTests + p.unexpected + p.flaky;
+console.log(`vitest ${v.numPassedTests} and playwright ${p.expected} tests passed`);
+console.log(`${passed} passed, ${failed} failed`);
+' "$reports/vitest.json" "$reports/playwright.json"
