@@ -21,6 +21,9 @@ fi
 reports=.test-reports
 rm -rf "$reports" && mkdir -p "$reports"
 
+echo "[test] type check"
+npx astro check --minimumSeverity error
+
 echo "[test] vitest"
 npx vitest run --reporter=default --reporter=json --outputFile.json="$reports/vitest.json"
 
