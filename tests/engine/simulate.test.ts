@@ -152,21 +152,22 @@ describe('SPEC §3 same-time changes', () => {
   });
 
   // Delta steps: a → buf#0 → b → not#0 → c → buf#0 → d;  y = xor#2(a, d).
+  const DELTA_CHAIN: FlatSpec = {
+    inputs: ['a'],
+    outputs: ['y'],
+    cells: [
+      { kind: 'buf', name: 'g1', out: 'b', in: ['a'], delay: 0 },
+      { kind: 'not', name: 'g2', out: 'c', in: ['b'], delay: 0 },
+      { kind: 'buf', name: 'g3', out: 'd', in: ['c'], delay: 0 },
+      { kind: 'xor', name: 'x', out: 'y', in: ['a', 'd'], delay: 2 },
+    ],
+  };
   // Settled at a=0: d=1, y=1. a rises: in the first step the xor sees a=1,
   // d=1 and schedules y=0 for 2; b, c, d follow in three delta steps at 0;
   // with d=0 the xor gives 1 again and the pending fall is cancelled.
   it('applies zero-delay results in delta steps at the same time', () => {
     const { r, changes } = run(
-      {
-        inputs: ['a'],
-        outputs: ['y'],
-        cells: [
-          { kind: 'buf', name: 'g1', out: 'b', in: ['a'], delay: 0 },
-          { kind: 'not', name: 'g2', out: 'c', in: ['b'], delay: 0 },
-          { kind: 'buf', name: 'g3', out: 'd', in: ['c'], delay: 0 },
-          { kind: 'xor', name: 'x', out: 'y', in: ['a', 'd'], delay: 2 },
-        ],
-      },
+      DELTA_CHAIN,
       [0],
       [1],
     );
@@ -178,16 +179,7 @@ describe('SPEC §3 same-time changes', () => {
   // delta step) are applied in that order at 2: a zero-width pulse, no change.
   it('orders same-time transport events first in, first out', () => {
     const { r, changes } = run(
-      {
-        inputs: ['a'],
-        outputs: ['y'],
-        cells: [
-          { kind: 'buf', name: 'g1', out: 'b', in: ['a'], delay: 0 },
-          { kind: 'not', name: 'g2', out: 'c', in: ['b'], delay: 0 },
-          { kind: 'buf', name: 'g3', out: 'd', in: ['c'], delay: 0 },
-          { kind: 'xor', name: 'x', out: 'y', in: ['a', 'd'], delay: 2 },
-        ],
-      },
+      DELTA_CHAIN,
       [0],
       [1],
       { mode: 'transport' },
