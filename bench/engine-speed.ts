@@ -4,7 +4,8 @@
  * process start, no parsing, no output. Best of several runs, in wall and
  * CPU time (the machine's cores are shared, so CPU time is the steadier
  * figure). A fingerprint of every step's results guards against a faster
- * engine that answers differently.
+ * engine that answers differently. ENGINE=ts runs the simulator's
+ * TypeScript loop instead of its WebAssembly kernel, for comparison.
  */
 import { AdderHarness } from '../src/engine/adder';
 import { generateAdder } from '../src/engine/generate';
@@ -13,6 +14,8 @@ import { SeededRandom, randomVector, type Vector } from '../src/engine/random';
 
 export interface EngineSpeed {
   design: string;
+  /** The simulator's WebAssembly kernel or its TypeScript loop. */
+  engine: 'wasm' | 'ts';
   vectors: number;
   /** Real net changes over all vectors (primary inputs included). */
   netChanges: number;
@@ -30,7 +33,7 @@ export interface EngineSpeed {
   fingerprint: string;
 }
 
-export function benchEngineSpeed(opts: { vectors?: number; runs?: number } = {}): EngineSpeed {
+export function benchEngineSpeed(opts: { vectors?: number; runs?: number; wasm?: boolean } = {}): EngineSpeed {
   const count = opts.vectors ?? 200_000;
   const runs = opts.runs ?? 3;
   const adder = prepareAdder(generateAdder({ arch: 'skip', width: 32, block: 4 })).adder!;
@@ -44,19 +47,24 @@ export function benchEngineSpeed(opts: { vectors?: number; runs?: number } = {})
   let wallMs = Infinity;
   let cpuMs = Infinity;
   let fingerprint = '';
+  let engine: EngineSpeed['engine'] = 'ts';
   for (let r = 0; r < runs; r++) {
     const cpu0 = process.cpuUsage();
     const t0 = performance.now();
-    const hash = simulate(adder, vectors);
+    // Building the harness is timed too (the kernel's instance and its tables).
+    const harness = new AdderHarness(adder.compiled, adder.ports, { wasm: opts.wasm ?? true });
+    const hash = simulate(harness, vectors);
     const wall = performance.now() - t0;
     const cpu = process.cpuUsage(cpu0);
     wallMs = Math.min(wallMs, wall);
     cpuMs = Math.min(cpuMs, (cpu.user + cpu.system) / 1000);
     fingerprint = hash;
+    engine = harness.sim.usesWasm ? 'wasm' : 'ts';
   }
   const seconds = cpuMs / 1000;
   return {
     design: 'skip 32-bit, blocks of 4',
+    engine,
     vectors: count,
     netChanges,
     runs,
@@ -71,9 +79,8 @@ export function benchEngineSpeed(opts: { vectors?: number; runs?: number } = {})
   };
 }
 
-/** The timed loop: one harness, every vector applied in order; returns the results' fingerprint. */
-function simulate(adder: NonNullable<ReturnType<typeof prepareAdder>['adder']>, vectors: readonly Vector[]): string {
-  const harness = new AdderHarness(adder.compiled, adder.ports, {});
+/** The timed loop: every vector applied in order; returns the results' fingerprint. */
+function simulate(harness: AdderHarness, vectors: readonly Vector[]): string {
   let h = 0x811c9dc5;
   for (const v of vectors) {
     const r = harness.apply(v);
@@ -89,8 +96,8 @@ function round(x: number): number {
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) {
-  const r = benchEngineSpeed({ vectors: Number(process.env.VECTORS ?? 200_000), runs: Number(process.env.RUNS ?? 3) });
-  console.log(`${r.design}: ${r.vectors} vectors, ${r.netChanges} net changes (${(r.netChanges / r.vectors).toFixed(1)} per vector)`);
+  const r = benchEngineSpeed({ vectors: Number(process.env.VECTORS ?? 200_000), runs: Number(process.env.RUNS ?? 3), wasm: process.env.ENGINE !== 'ts' });
+  console.log(`${r.design}, ${r.engine === 'wasm' ? 'WebAssembly kernel' : 'TypeScript loop'}: ${r.vectors} vectors, ${r.netChanges} net changes (${(r.netChanges / r.vectors).toFixed(1)} per vector)`);
   console.log(`best of ${r.runs}: wall ${r.wallMs} ms, cpu ${r.cpuMs} ms`);
   console.log(`cpu:  ${(r.vectorsPerSecond / 1e3).toFixed(0)} k vectors/s, ${(r.netChangesPerSecond / 1e6).toFixed(1)} M net changes/s, ${r.microsecondsPerVector} µs/vector`);
   console.log(`wall: ${(r.vectorsPerSecondWall / 1e3).toFixed(0)} k vectors/s, ${(r.netChangesPerSecondWall / 1e6).toFixed(1)} M net changes/s`);

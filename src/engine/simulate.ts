@@ -17,11 +17,17 @@
  * T was scheduled by the evaluation at T - delay(v), and that evaluation's
  * cause is the cell's lowest-numbered input pin whose net really changed
  * at that time.
+ *
+ * Without path or change log the vectors run in a WebAssembly port of this
+ * loop and of the wheel (src/engine/wasm/kernel.ts, assembly/sim-kernel.ts)
+ * where it can, with the same results and no JavaScript bounds checks;
+ * where WebAssembly is missing, this loop runs.
  */
 import { evalCell, settleValues, type CompiledNetlist } from './compile';
 import { EngineError } from './errors';
 import type { PathEntry } from './flat';
-import { grown, TimingWheel } from './timing-wheel';
+import { grown, ringBitsFor, TimingWheel } from './timing-wheel';
+import { kernelCanRun, SimKernel } from './wasm/kernel';
 
 export type DelayMode = 'inertial' | 'transport';
 
@@ -36,6 +42,8 @@ export interface SimulatorOptions {
   recordChanges?: boolean;
   /** Cap on the wheel's ring size as a power of two (tests use it to exercise the overflow list). */
   ringBits?: number;
+  /** Run plain vectors in the WebAssembly kernel where it can (default); tests turn it off to compare the two. */
+  wasm?: boolean;
 }
 
 /** A real change of a net: its value after all delta steps at `time` differs from before. */
@@ -81,8 +89,6 @@ const enum Flag {
 }
 
 export class TimingSimulator {
-  /** Present value of every net. Read it; do not write it. */
-  readonly values: Uint8Array;
   readonly mode: DelayMode;
 
   private readonly c: CompiledNetlist;
@@ -92,6 +98,9 @@ export class TimingSimulator {
   private readonly recordPath: boolean;
   private readonly recordChanges: boolean;
   private settled = false;
+  /** The WebAssembly kernel that runs the vectors, or null for this TypeScript loop. */
+  private readonly kernel: SimKernel | null;
+  private readonly ownValues: Uint8Array;
 
   /**
    * Per output pin, bit 0 (Want): the value it is headed for, that is the
@@ -153,7 +162,7 @@ export class TimingSimulator {
 
     const { netCount, cellCount, pinCount } = compiled;
     const ids = pinCount + compiled.inputNets.length;
-    this.values = new Uint8Array(netCount);
+    this.ownValues = new Uint8Array(netCount);
     this.wheel = this.transport
       ? new TimingWheel(compiled.maxDelay, options.ringBits, Math.max(1024, 2 * ids))
       : new TimingWheel(compiled.maxDelay, options.ringBits, ids, ids);
@@ -175,6 +184,19 @@ export class TimingSimulator {
       this.netFlags[observe[i]] |= Flag.Observed;
     }
     this.changedIn = new Int32Array(netCount);
+    // Cells without a truth table (large gates, expressions) are evaluated by `evalCell`, which the kernel does not port.
+    const wasm = !this.logging && (options.wasm ?? true) && kernelCanRun(compiled);
+    this.kernel = wasm ? new SimKernel(compiled, this.netFlags, ringBitsFor(compiled.maxDelay, options.ringBits), this.transport) : null;
+  }
+
+  /** Present value of every net. Read it; do not write it. */
+  get values(): Uint8Array {
+    return this.kernel !== null ? this.kernel.values : this.ownValues;
+  }
+
+  /** Whether the vectors run in the WebAssembly kernel. */
+  get usesWasm(): boolean {
+    return this.kernel !== null;
   }
 
   /**
@@ -184,12 +206,16 @@ export class TimingSimulator {
    */
   settle(inputs: ArrayLike<number>): void {
     settleValues(this.c, inputs, this.values);
+    this.settled = true;
+    if (this.kernel !== null) {
+      this.kernel.settled();
+      return;
+    }
     this.wheel.clear();
     for (let pin = 0; pin < this.c.pinCount; pin++) {
       const net = this.c.outNets[pin];
       this.state[pin] = this.values[net] | this.netFlags[net];
     }
-    this.settled = true;
   }
 
   /**
@@ -201,6 +227,14 @@ export class TimingSimulator {
     this.startVector();
     if (!this.settled) {
       this.settle(inputs);
+      return this.result();
+    }
+    if (this.kernel !== null) {
+      const r = this.kernel.step(inputs);
+      this.settleTime = r[0];
+      this.lastEventTime = r[1];
+      this.outputChanges = r[2];
+      this.glitches = r[3];
       return this.result();
     }
     const { inputNets, pinCount } = this.c;

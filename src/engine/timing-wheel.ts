@@ -52,9 +52,7 @@ export class TimingWheel {
 
   /** `reserved` ids (0 .. reserved - 1) are placed by the caller with `place`; the pool hands out the rest. */
   constructor(maxDelay: number, ringBits = MAX_RING_BITS, capacity = 1024, reserved = 0) {
-    let bits = 0;
-    while (bits < ringBits && 1 << bits <= maxDelay) bits++;
-    const size = 1 << bits;
+    const size = 1 << ringBitsFor(maxDelay, ringBits);
     this.mask = size - 1;
     this.overflow = size;
     this.head = new Int32Array(size + 1).fill(Id.None);
@@ -215,6 +213,13 @@ export class TimingWheel {
     this.next = grown(this.next, capacity);
     this.prev = grown(this.prev, capacity);
   }
+}
+
+/** The ring's size as a power of two: enough for `maxDelay`, at most `cap` bits (the simulator's wasm kernel sizes its ring the same way). */
+export function ringBitsFor(maxDelay: number, cap = MAX_RING_BITS): number {
+  let bits = 0;
+  while (bits < cap && 1 << bits <= maxDelay) bits++;
+  return bits;
 }
 
 /** A copy of a typed array in a larger one of the same type. */
