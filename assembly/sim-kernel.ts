@@ -183,24 +183,8 @@ export function stepTransport(): void {
   mask: i32,
 ): void {
   const vec = vector;
-  let dirtyEnd = dirty;
-  let outputChanges = 0;
-  // The changed inputs are the whole first batch at time 0 (nothing else is due yet): applied here, not through
-  // the wheel. First list them without a branch on whether each changed (half of them do, at random).
-  let changedEnd = changedInputs;
-  for (let i = 0; i < inputCount; i++) {
-    const v = <i32>(load<u8>(inputs + <usize>i) != 0);
-    const net = load<i32>(inputNets + (<usize>i << 2));
-    const changed = <i32>(<i32>load<u8>(values + <usize>net) != v);
-    const n = nets + (<usize>net << 4);
-    // An input changes once per vector and is never deferred (only cell outputs are): no glitch, no before-value.
-    outputChanges += changed & ((load<u8>(n, NET_FLAGS) & OBSERVED) >> 3);
-    store<i32>(n, vec, NET_CHANGED_IN);
-    store<u8>(values + <usize>net, <u8>v);
-    store<usize>(changedEnd, n);
-    changedEnd += <usize>changed << 2;
-  }
-  for (let k = changedInputs; k < changedEnd; k += 4) dirtyEnd = markFanOut(load<usize>(k), dirtyEnd, fan, cells);
+  let dirtyEnd = applyInputs();
+  let outputChanges = observedInputChanges;
 
   let touchedEnd = touched;
   let settle = 0;
@@ -292,6 +276,36 @@ export function stepTransport(): void {
   store<i32>(results, lastEvent, 4);
   store<i32>(results, outputChanges, 8);
   store<i32>(results, glitches, 12);
+}
+
+/** Observed inputs that `applyInputs` changed. */
+let observedInputChanges: i32 = 0;
+
+/**
+ * The changed inputs are the whole first batch at time 0 (nothing else is
+ * due yet): apply them here, not through the wheel, and return the end of
+ * the dirty list. A function of its own, so that the event loop has its
+ * registers to itself.
+ */
+function applyInputs(): usize {
+  let observed = 0;
+  // First list the changed inputs without a branch on whether each changed (half of them do, at random).
+  let changedEnd = changedInputs;
+  for (let i = 0; i < inputCount; i++) {
+    const v = <i32>(load<u8>(inputs + <usize>i) != 0);
+    const net = load<i32>(inputNets + (<usize>i << 2));
+    const changed = <i32>(<i32>load<u8>(values + <usize>net) != v);
+    const n = netAt(net);
+    // An input changes once per vector and is never deferred (only cell outputs are): no glitch, no before-value.
+    observed += changed & ((load<u8>(n, NET_FLAGS) & OBSERVED) >> 3);
+    store<u8>(values + <usize>net, <u8>v);
+    store<usize>(changedEnd, n);
+    changedEnd += <usize>changed << 2;
+  }
+  observedInputChanges = observed;
+  let dirtyEnd = dirty;
+  for (let k = changedInputs; k < changedEnd; k += 4) dirtyEnd = markFanOut(load<usize>(k), dirtyEnd, fan, cells);
+  return dirtyEnd;
 }
 
 /** Output pin `pin` evaluates to `v` at time t: schedule its change (transport), or cancel or schedule it (inertial). */
