@@ -36,12 +36,18 @@ const NET_FAN = 0;
 const NET_CHANGED_IN = 4;
 const NET_FLAGS = 8;
 const NET_BEFORE = 9;
-/** Cell record: its four table inputs (net numbers), truth table, output pins, dirty flag. */
+/**
+ * Cell record: its input nets (up to four, -1 for none), truth table,
+ * output pins, dirty flag, and the present values of its inputs as the
+ * table's index (bit k: input pin k), kept up to date as nets change, so an
+ * evaluation is one table read.
+ */
 const CELL_SIZE: i32 = 32;
 const CELL_TABLE = 16;
 const CELL_PINS = 20;
 const CELL_PINS_END = 24;
 const CELL_DIRTY = 28;
+const CELL_INDEX = 29;
 /**
  * Event record: time, next and prev in its bucket, and net. Ids below
  * `reserved` are the output pins; their records also hold rise, fall and
@@ -65,27 +71,29 @@ export let inputs: usize = 0;
 export let nets: usize = 0;
 export let cells: usize = 0;
 export let events: usize = 0;
-/** i32 per fan-out entry: the byte offset of the cell record. */
+/** i32 per fan-out entry: the address of the cell record, plus the input pin (below 4; records are 32-byte aligned). */
 export let fan: usize = 0;
 /** i32 per primary input: its net. */
 export let inputNets: usize = 0;
 /** settle, lastEvent, outputChanges, glitches of the last `step`. */
 export let results: usize = 0;
-/** Dirty cells (byte offsets of their records), touched deferred nets (numbers), changed inputs (net record addresses). */
+/** Dirty cells (addresses of their records), touched deferred nets (numbers), changed inputs (addresses of their net records). */
 let dirty: usize = 0;
 let changedInputs: usize = 0;
 let touched: usize = 0;
 
 let netCount: i32 = 0;
+let cellCount: i32 = 0;
 let pinCount: i32 = 0;
 let inputCount: i32 = 0;
 let transport: bool = false;
 /** The number of the vector being simulated (a second change of a net in one vector is a glitch). */
 let vector: i32 = 0;
 
-// The timing wheel: bucket list heads and tails (the ring, then the overflow list) and its state.
-let head: usize = 0;
-let tail: usize = 0;
+// The timing wheel: its buckets (the ring, then the overflow list), each a list head and tail, and its state.
+let buckets: usize = 0;
+const BUCKET_SHIFT = 3;
+const TAIL = 4;
 let mask: i32 = 0;
 let now: i32 = 0;
 let horizon: i32 = NONE;
@@ -99,6 +107,7 @@ let capacity: i32 = 0;
 /** Lay out memory for a netlist of these sizes (ring of 2^ringBits buckets) and grow it to fit. */
 export function setup(netsIn: i32, cellsIn: i32, pins: i32, ins: i32, fanCount: i32, ringBits: i32, isTransport: bool): void {
   netCount = netsIn;
+  cellCount = cellsIn;
   pinCount = pins;
   inputCount = ins;
   transport = isTransport;
@@ -117,8 +126,7 @@ export function setup(netsIn: i32, cellsIn: i32, pins: i32, ins: i32, fanCount: 
   touched = carve(4 * netsIn);
   // One slot more than the inputs, like `dirty`.
   changedInputs = carve(4 * (ins + 1));
-  head = carve(4 * (ring + 1));
-  tail = carve(4 * (ring + 1));
+  buckets = carve((ring + 1) << BUCKET_SHIFT);
   // Transport events come from a pool above the pins, as large as the TypeScript wheel's to start with.
   reserved = pins;
   events = bump;
@@ -136,6 +144,14 @@ export function start(): void {
 /** The host has settled `values`: every pin is headed for its present value, nothing is pending (`TimingSimulator.settle`). */
 export function settled(): void {
   clear();
+  for (let cell = cells, end = cells + <usize>(CELL_SIZE * cellCount); cell < end; cell += CELL_SIZE) {
+    let index = 0;
+    for (let k = 0; k < 4; k++) {
+      const net = load<i32>(cell + (<usize>k << 2));
+      if (net >= 0) index |= <i32>load<u8>(values + <usize>net) << k;
+    }
+    store<u8>(cell, index, CELL_INDEX);
+  }
   for (let pin = 0; pin < pinCount; pin++) {
     const e = record(pin);
     const net = load<i32>(e, EV_NET);
@@ -149,13 +165,13 @@ export function settled(): void {
  */
 export function stepInertial(): void {
   startVector();
-  run(false, values, nets, cells, events, fan, dirty, touched, head, tail, mask);
+  run(false, values, nets, events, fan, dirty, buckets, mask);
 }
 
 /** `stepInertial` in transport mode: two entry points, each a copy of the loop for its mode, so neither tests the mode per event. */
 export function stepTransport(): void {
   startVector();
-  run(true, values, nets, cells, events, fan, dirty, touched, head, tail, mask);
+  run(true, values, nets, events, fan, dirty, buckets, mask);
 }
 
 @inline function startVector(): void {
@@ -173,13 +189,10 @@ export function stepTransport(): void {
   isTransport: bool,
   values: usize,
   nets: usize,
-  cells: usize,
   events: usize,
   fan: usize,
   dirty: usize,
-  touched: usize,
-  head: usize,
-  tail: usize,
+  buckets: usize,
   mask: i32,
 ): void {
   const vec = vector;
@@ -193,27 +206,22 @@ export function stepTransport(): void {
   // Per time t: evaluate the dirty cells, then take the events due (the next delta step) and apply them, until
   // none is left. (The TypeScript loop takes first and evaluates after; the same order, entered where the
   // inputs left it: with cells to evaluate at time 0.)
-  for (let t = 0; t >= 0; t = advance(head, mask)) {
+  for (let t = 0; t >= 0; t = advance(buckets, mask)) {
     for (;;) {
       for (let d = dirty; d < dirtyEnd; d += 4) {
         const cell = load<usize>(d);
         store<u8>(cell, 0, CELL_DIRTY);
-        const index =
-          load<u8>(values + <usize>load<i32>(cell)) |
-          (load<u8>(values + <usize>load<i32>(cell, 4)) << 1) |
-          (load<u8>(values + <usize>load<i32>(cell, 8)) << 2) |
-          (load<u8>(values + <usize>load<i32>(cell, 12)) << 3);
-        const outs = load<i32>(cell, CELL_TABLE) >> (2 * index);
+        const outs = load<i32>(cell, CELL_TABLE) >> (2 * <i32>load<u8>(cell, CELL_INDEX));
         // A tabulated cell has one or two output pins: the loop over them, unrolled.
         const pin = load<i32>(cell, CELL_PINS);
         const end = load<i32>(cell, CELL_PINS_END);
         if (pin < end) {
-          updatePin(isTransport, events, head, tail, mask, t, pin, outs & 1);
-          if (pin + 1 < end) updatePin(isTransport, events, head, tail, mask, t, pin + 1, (outs >> 1) & 1);
+          updatePin(isTransport, events, buckets, mask, t, pin, outs & 1);
+          if (pin + 1 < end) updatePin(isTransport, events, buckets, mask, t, pin + 1, (outs >> 1) & 1);
         }
       }
       dirtyEnd = dirty;
-      let ev = takeDue(head, tail, mask);
+      let ev = takeDue(buckets, mask, t);
       if (ev < 0) break;
       while (ev >= 0) {
         const e = events + (<usize>ev << EV_SHIFT);
@@ -251,7 +259,7 @@ export function stepTransport(): void {
           touchedEnd += 4;
         }
         store<u8>(values + <usize>net, <u8>v);
-        dirtyEnd = markFanOut(n, dirtyEnd, fan, cells);
+        dirtyEnd = markFanOut(n, v, dirtyEnd, fan);
         ev = after;
       }
     }
@@ -304,12 +312,15 @@ function applyInputs(): usize {
   }
   observedInputChanges = observed;
   let dirtyEnd = dirty;
-  for (let k = changedInputs; k < changedEnd; k += 4) dirtyEnd = markFanOut(load<usize>(k), dirtyEnd, fan, cells);
+  for (let k = changedInputs; k < changedEnd; k += 4) {
+    const n = load<usize>(k);
+    dirtyEnd = markFanOut(n, <i32>load<u8>(values + ((n - nets) >> 4)), dirtyEnd, fan);
+  }
   return dirtyEnd;
 }
 
 /** Output pin `pin` evaluates to `v` at time t: schedule its change (transport), or cancel or schedule it (inertial). */
-@inline function updatePin(isTransport: bool, events: usize, head: usize, tail: usize, mask: i32, t: i32, pin: i32, v: i32): void {
+@inline function updatePin(isTransport: bool, events: usize, buckets: usize, mask: i32, t: i32, pin: i32, v: i32): void {
   const e = events + (<usize>pin << EV_SHIFT);
   const st = <i32>load<u8>(e, EV_STATE);
   // The common case: a pending change to v stays, or v is the present value and nothing is pending.
@@ -317,23 +328,30 @@ function applyInputs(): usize {
   const kept = (st & STATIC) | v;
   if (isTransport) {
     store<u8>(e, kept, EV_STATE);
-    schedule(events, head, tail, mask, t + load<i32>(e, EV_RISE), load<i32>(e, EV_NET), v);
+    schedule(events, buckets, mask, t, t + load<i32>(e, EV_RISE), load<i32>(e, EV_NET), v);
   } else if (st & PENDING) {
     // A pending change to the other value: the glitch is swallowed, v is the present value again.
     store<u8>(e, kept, EV_STATE);
-    cancel(events, head, tail, mask, pin);
+    cancel(events, buckets, mask, t, pin);
   } else {
     store<u8>(e, kept | PENDING, EV_STATE);
-    place(events, head, tail, mask, pin, t + (v ? load<i32>(e, EV_RISE) : load<i32>(e, EV_FALL)));
+    place(events, buckets, mask, t, pin, t + (v ? load<i32>(e, EV_RISE) : load<i32>(e, EV_FALL)));
   }
 }
 
-/** Add the cells that read net record `n` to the dirty list ending at `dirtyEnd`; returns its new end. */
-@inline function markFanOut(n: usize, dirtyEnd: usize, fan: usize, cells: usize): usize {
+/**
+ * Net record `n` changed to v: set its bit in the index of the cells that
+ * read it, and add them to the dirty list ending at `dirtyEnd`; returns its
+ * new end.
+ */
+@inline function markFanOut(n: usize, v: i32, dirtyEnd: usize, fan: usize): usize {
   const fanEnd = fan + (<usize>load<i32>(n, NET_SIZE + NET_FAN) << 2);
   for (let f = fan + (<usize>load<i32>(n, NET_FAN) << 2); f < fanEnd; f += 4) {
+    const entry = load<i32>(f);
+    const cell = <usize>(entry & ~(CELL_SIZE - 1));
+    const bit = 1 << (entry & (CELL_SIZE - 1));
+    store<u8>(cell, (<i32>load<u8>(cell, CELL_INDEX) & ~bit) | (bit & -v), CELL_INDEX);
     // Listed once: the entry is written always, kept only if the cell was clean (no branch to mispredict).
-    const cell = cells + <usize>load<i32>(f);
     store<usize>(dirtyEnd, cell);
     dirtyEnd += (<usize>load<u8>(cell, CELL_DIRTY) ^ 1) << 2;
     store<u8>(cell, 1, CELL_DIRTY);
@@ -348,53 +366,54 @@ function applyInputs(): usize {
   return events + (<usize>ev << EV_SHIFT);
 }
 
-// ---- The timing wheel (TimingWheel in timing-wheel.ts); the hot operations take its tables as parameters. ----
+// ---- The timing wheel (TimingWheel in timing-wheel.ts). The hot operations take its tables, and `now`
+// (the loop's t), as parameters, which the loop keeps in registers. ----
 
-@inline function schedule(events: usize, head: usize, tail: usize, mask: i32, time: i32, net: i32, value: i32): void {
+@inline function schedule(events: usize, buckets: usize, mask: i32, now: i32, time: i32, net: i32, value: i32): void {
   const ev = allocate();
   store<i32>(events + (<usize>ev << EV_SHIFT), (net << 1) | value, EV_NET);
-  place(events, head, tail, mask, ev, time);
+  place(events, buckets, mask, now, ev, time);
 }
 
-@inline function place(events: usize, head: usize, tail: usize, mask: i32, ev: i32, time: i32): void {
+@inline function place(events: usize, buckets: usize, mask: i32, now: i32, ev: i32, time: i32): void {
   const e = events + (<usize>ev << EV_SHIFT);
   store<i32>(e, time);
-  let s: usize;
+  let s: usize; // the bucket
   if (time - now <= mask) {
-    s = <usize>(time & mask) << 2;
+    s = buckets + (<usize>(time & mask) << BUCKET_SHIFT);
     if (time > horizon) horizon = time;
   } else {
-    s = <usize>(mask + 1) << 2;
+    s = buckets + (<usize>(mask + 1) << BUCKET_SHIFT);
     if (overflowCount++ == 0 || time < overflowMin) overflowMin = time;
   }
-  const last = load<i32>(tail + s);
+  const last = load<i32>(s, TAIL);
   store<i32>(e, last, EV_PREV);
   store<i32>(e, NONE, EV_NEXT);
   // The bucket's head or the last event's next, chosen without a branch.
-  store<i32>(select<usize>(head + s, events + (<usize>last << EV_SHIFT) + EV_NEXT, last == NONE), ev);
-  store<i32>(tail + s, ev);
+  store<i32>(select<usize>(s, events + (<usize>last << EV_SHIFT) + EV_NEXT, last == NONE), ev);
+  store<i32>(s, ev, TAIL);
 }
 
-@inline function cancel(events: usize, head: usize, tail: usize, mask: i32, ev: i32): void {
+@inline function cancel(events: usize, buckets: usize, mask: i32, now: i32, ev: i32): void {
   const e = events + (<usize>ev << EV_SHIFT);
   const time = load<i32>(e);
   // Between advances, exactly the events beyond the ring's reach wait in the overflow list.
   const overflow = time - now > mask;
-  const s = <usize>(overflow ? mask + 1 : time & mask) << 2;
+  const s = buckets + (<usize>(overflow ? mask + 1 : time & mask) << BUCKET_SHIFT);
   const p = load<i32>(e, EV_PREV);
   const n = load<i32>(e, EV_NEXT);
-  store<i32>(select<usize>(head + s, events + (<usize>p << EV_SHIFT) + EV_NEXT, p == NONE), n);
-  store<i32>(select<usize>(tail + s, events + (<usize>n << EV_SHIFT) + EV_PREV, n == NONE), p);
+  store<i32>(select<usize>(s, events + (<usize>p << EV_SHIFT) + EV_NEXT, p == NONE), n);
+  store<i32>(select<usize>(s + TAIL, events + (<usize>n << EV_SHIFT) + EV_PREV, n == NONE), p);
   if (overflow) overflowCount--;
 }
 
 /** The earliest time with events (moving overflow events that now fit into the ring), or -1 when none is left. */
-@inline function advance(head: usize, mask: i32): i32 {
+@inline function advance(buckets: usize, mask: i32): i32 {
   let due = NONE;
   for (;;) {
     let t = now;
     const end = horizon;
-    while (t <= end && load<i32>(head + (<usize>(t & mask) << 2)) == NONE) t++;
+    while (t <= end && load<i32>(buckets + (<usize>(t & mask) << BUCKET_SHIFT)) == NONE) t++;
     if (t <= end) {
       now = t;
       // Overflow events come into the ring before anything else is scheduled for their time (FIFO).
@@ -410,11 +429,10 @@ function applyInputs(): usize {
   return due;
 }
 
-@inline function takeDue(head: usize, tail: usize, mask: i32): i32 {
-  const b = <usize>(now & mask) << 2;
-  const first = load<i32>(head + b);
-  store<i32>(head + b, NONE);
-  store<i32>(tail + b, NONE);
+@inline function takeDue(buckets: usize, mask: i32, now: i32): i32 {
+  const b = buckets + (<usize>(now & mask) << BUCKET_SHIFT);
+  const first = load<i32>(b);
+  store<i64>(b, -1); // head and tail: NONE
   return first;
 }
 
@@ -424,8 +442,7 @@ function applyInputs(): usize {
 }
 
 function clear(): void {
-  memory.fill(head, 0xff, <usize>(mask + 2) << 2);
-  memory.fill(tail, 0xff, <usize>(mask + 2) << 2);
+  memory.fill(buckets, 0xff, <usize>(mask + 2) << BUCKET_SHIFT);
   horizon = NONE;
   overflowCount = 0;
   freeHead = NONE;
@@ -434,15 +451,14 @@ function clear(): void {
 }
 
 function migrate(): void {
-  const s = mask + 1;
-  let ev = load<i32>(head + (<usize>s << 2));
-  store<i32>(head + (<usize>s << 2), NONE);
-  store<i32>(tail + (<usize>s << 2), NONE);
+  const s = buckets + (<usize>(mask + 1) << BUCKET_SHIFT);
+  let ev = load<i32>(s);
+  store<i64>(s, -1); // head and tail: NONE
   overflowCount = 0;
   while (ev != NONE) {
     const e = record(ev);
     const after = load<i32>(e, EV_NEXT);
-    place(events, head, tail, mask, ev, load<i32>(e));
+    place(events, buckets, mask, now, ev, load<i32>(e));
     ev = after;
   }
 }

@@ -95,7 +95,8 @@ export class SimKernel {
     const cellWords = words(x.cells);
     for (let cell = 0; cell < c.cellCount; cell++) {
       const r = CELL_WORDS * cell;
-      for (let k = 0; k < 4; k++) cellWords[r + k] = c.tableIn[4 * cell + k];
+      const inputs = c.inStart[cell + 1] - c.inStart[cell];
+      for (let k = 0; k < 4; k++) cellWords[r + k] = k < inputs ? c.inNets[c.inStart[cell] + k] : -1;
       cellWords[r + CELL_TABLE] = c.table[cell];
       cellWords[r + CELL_PINS] = c.outStart[cell];
       cellWords[r + CELL_PINS + 1] = c.outStart[cell + 1];
@@ -106,8 +107,8 @@ export class SimKernel {
       evWords[EV_WORDS * pin + EV_RISE] = c.rise[pin];
       evWords[EV_WORDS * pin + EV_FALL] = c.fall[pin];
     }
-    // Fan-out entries are byte offsets of cell records.
-    words(x.fan).set(c.fanCell.map((cell) => 4 * CELL_WORDS * cell));
+    // Fan-out entries: address of the cell record plus input pin.
+    words(x.fan).set(c.fanCell.map((cell, f) => x.cells.value + 4 * CELL_WORDS * cell + c.fanPin[f]));
     words(x.inputNets).set(c.inputNets);
     x.start();
     this.views();
