@@ -196,7 +196,7 @@ export function stepTransport(): void {
   mask: i32,
 ): void {
   const vec = vector;
-  let dirtyEnd = applyInputs();
+  let dirtyEnd = applyInputs(values, nets, inputs, inputNets, changedInputs, dirty, fan);
   let outputChanges = observedInputChanges;
 
   let touchedEnd = touched;
@@ -293,17 +293,25 @@ let observedInputChanges: i32 = 0;
  * The changed inputs are the whole first batch at time 0 (nothing else is
  * due yet): apply them here, not through the wheel, and return the end of
  * the dirty list. A function of its own, so that the event loop has its
- * registers to itself.
+ * registers to itself; the tables as parameters, like the loop's.
  */
-function applyInputs(): usize {
+function applyInputs(
+  values: usize,
+  nets: usize,
+  inputs: usize,
+  inputNets: usize,
+  changedInputs: usize,
+  dirty: usize,
+  fan: usize,
+): usize {
   let observed = 0;
   // First list the changed inputs without a branch on whether each changed (half of them do, at random).
   let changedEnd = changedInputs;
-  for (let i = 0; i < inputCount; i++) {
+  for (let i = 0, count = inputCount; i < count; i++) {
     const v = <i32>(load<u8>(inputs + <usize>i) != 0);
     const net = load<i32>(inputNets + (<usize>i << 2));
     const changed = <i32>(<i32>load<u8>(values + <usize>net) != v);
-    const n = netAt(net);
+    const n = nets + (<usize>net << 4);
     // An input changes once per vector and is never deferred (only cell outputs are): no glitch, no before-value.
     observed += changed & ((load<u8>(n, NET_FLAGS) & OBSERVED) >> 3);
     store<u8>(values + <usize>net, <u8>v);
