@@ -236,3 +236,19 @@ describe('bad input and options: exit 2, one line, no stack trace', () => {
     expectUsageError(skiplane('sim', 'skip8.v', '--vectors', 'bad-vectors.txt'), /bad-vectors\.txt:2:/);
   });
 });
+
+describe('stepJson', () => {
+  it('writes what JSON.stringify writes for the same step', async () => {
+    const { stepJson } = await import('../../src/cli/format');
+    const fc = (await import('fast-check')).default;
+    const big = fc.bigInt({ min: 0n, max: (1n << 129n) - 1n });
+    const time = fc.integer({ min: 0, max: 2 ** 31 - 1 });
+    fc.assert(
+      fc.property(big, big, fc.bigInt({ min: 0n, max: 1n }), big, time, time, time, (a, b, cin, sum, settle, lastEvent, outputChanges) => {
+        const hex = (v: bigint) => '0x' + v.toString(16);
+        const expected = JSON.stringify({ a: hex(a), b: hex(b), cin: hex(cin), sum: hex(sum), settle, lastEvent, outputChanges });
+        expect(stepJson({ a, b, cin, sum, settle, lastEvent, outputChanges })).toBe(expected);
+      }),
+    );
+  });
+});
