@@ -66,6 +66,8 @@ export function benchSimVsVvp() {
     timed('npm', ['run', '--silent', '--prefix', root, 'skiplane', '--', 'sim', join(dir, 'dut.json'), '--vectors', join(dir, 'vectors.txt'), '--json', ...threads], dir, join(dir, out));
   const oneThread = skiplane(['--threads', '1'], 'ours-1.json');
   const ours = skiplane([], 'ours.json');
+  // The same process without npm's own start-up around it (about 0.3 s here).
+  const direct = timed(process.execPath, [join(root, 'scripts/skiplane.mjs'), 'sim', join(dir, 'dut.json'), '--vectors', join(dir, 'vectors.txt'), '--json'], dir, join(dir, 'ours-direct.json'));
   if (readFileSync(join(dir, 'ours-1.json'), 'utf8') !== readFileSync(join(dir, 'ours.json'), 'utf8')) throw new Error('one thread and several threads gave different steps');
   const steps = (JSON.parse(readFileSync(join(dir, 'ours.json'), 'utf8')) as { steps: { sum: string; settle: number }[] }).steps;
 
@@ -91,7 +93,9 @@ export function benchSimVsVvp() {
     skiplaneProcess: { threads: Math.min(4, availableParallelism()), seconds: ours.seconds, vectorsPerSecond: VECTORS / ours.seconds, netChangesPerSecond: netChanges / ours.seconds, peakMiB: ours.peakKiB / 1024 },
     skiplaneEngineOnly: engine,
     vvp: { version: vvpVersion, seconds: vvp.seconds, vectorsPerSecond: VECTORS / vvp.seconds, netChangesPerSecond: netChanges / vvp.seconds, peakMiB: vvp.peakKiB / 1024 },
+    skiplaneProcessWithoutNpm: { seconds: direct.seconds, vectorsPerSecond: VECTORS / direct.seconds },
     ratio: vvp.seconds / ours.seconds,
+    ratioWithoutNpm: vvp.seconds / direct.seconds,
     ratioOneThread: vvp.seconds / oneThread.seconds,
     disagreements,
   };
@@ -99,6 +103,7 @@ export function benchSimVsVvp() {
   console.log(`sim vs vvp — ${result.design}; ${f(VECTORS)} vectors, ${f(netChanges)} net changes`);
   console.log(`  skiplane sim --threads 1 (process): ${oneThread.seconds.toFixed(2)} s, ${f(result.skiplaneProcessOneThread.vectorsPerSecond)} vectors/s, peak ${result.skiplaneProcessOneThread.peakMiB.toFixed(0)} MiB`);
   console.log(`  skiplane sim, ${result.skiplaneProcess.threads} threads (process): ${ours.seconds.toFixed(2)} s, ${f(result.skiplaneProcess.vectorsPerSecond)} vectors/s, ${f(result.skiplaneProcess.netChangesPerSecond)} net changes/s, peak ${result.skiplaneProcess.peakMiB.toFixed(0)} MiB`);
+  console.log(`  node scripts/skiplane.mjs sim (the same, without npm run): ${direct.seconds.toFixed(2)} s, ${f(VECTORS / direct.seconds)} vectors/s → ${(vvp.seconds / direct.seconds).toFixed(1)}x vvp`);
   console.log(`  skiplane engine only, one thread (best of 3, CPU time): ${(engine.cpuMs / 1000).toFixed(2)} s, ${f(engine.vectorsPerSecond)} vectors/s, ${f(engine.netChangesPerSecond)} net changes/s`);
   console.log(`  vvp (${vvpVersion}): ${vvp.seconds.toFixed(2)} s, ${f(result.vvp.vectorsPerSecond)} vectors/s, ${f(result.vvp.netChangesPerSecond)} net changes/s, peak ${result.vvp.peakMiB.toFixed(0)} MiB`);
   console.log(`  ratio (vvp time / skiplane time): ${result.ratio.toFixed(1)}x on ${result.skiplaneProcess.threads} threads, ${result.ratioOneThread.toFixed(1)}x on one (target ≥ 10x, aim 30x); settle-time disagreements: ${disagreements}`);
