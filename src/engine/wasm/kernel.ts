@@ -5,8 +5,9 @@
  * need no change log and no sensitized path; the results are bit-identical
  * to its TypeScript loop (tests/engine/simulate.wasm.test.ts).
  *
- * Instantiated synchronously, which Node, browsers and workers allow for a
- * module this small.
+ * Instantiated synchronously, which Node and Web Workers allow. A browser's
+ * main thread refuses to compile modules over 4 KB synchronously (this one
+ * is about 4.5 KB); there the module is null and the TypeScript loop runs.
  */
 import type { CompiledNetlist } from '../compile';
 import { SIM_KERNEL_WASM } from './sim-kernel-wasm';
