@@ -16,6 +16,7 @@ import { writeDesignJson } from '../src/engine/json';
 import { prepareAdder } from '../src/engine/pipeline';
 import { SeededRandom, randomVector, type Vector } from '../src/engine/random';
 import { topologicalDelay } from '../src/engine/topo';
+import { vcdPeriod } from '../src/engine/vcd';
 import { writeVerilog } from '../src/engine/verilog/write';
 import { benchEngineSpeed } from './engine-speed';
 import { compileIverilog, readSteps, writeAdderTestbench } from './iverilog-adder';
@@ -44,7 +45,7 @@ export function benchSimVsVvp() {
   const adder = prepareAdder(design).adder!;
   const { ports } = adder;
   const topo = topologicalDelay(adder.compiled, [...ports.sum, ports.cout!]).delay;
-  const period = (Math.floor(topo / 10) + 1) * 10;
+  const period = vcdPeriod(topo);
 
   const rng = new SeededRandom(SEED);
   const vectors: Vector[] = Array.from({ length: VECTORS }, () => randomVector(rng, 32, true));

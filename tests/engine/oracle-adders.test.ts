@@ -15,6 +15,7 @@ import { prepareAdder, type PreparedAdder } from '../../src/engine/pipeline';
 import { SeededRandom, randomVector, type Vector } from '../../src/engine/random';
 import type { DelayMode } from '../../src/engine/simulate';
 import { topologicalDelay } from '../../src/engine/topo';
+import { vcdPeriod } from '../../src/engine/vcd';
 import { writeVerilog } from '../../src/engine/verilog/write';
 import { hasIverilog, traceWithIverilog, type OracleDesign } from './support/iverilog';
 
@@ -88,8 +89,8 @@ function toTransportDelays(verilog: string): string {
 }
 
 function period(adder: PreparedAdder): number {
-  const { delay } = topologicalDelay(adder.compiled, [...adder.ports.sum, adder.ports.cout!]);
-  return (Math.floor(delay / 10) + 1) * 10; // SPEC §7: the smallest multiple of 10 above the topological delay
+  // SPEC §7: the smallest multiple of 10 above the topological delay (so every vector settles in its period).
+  return vcdPeriod(topologicalDelay(adder.compiled, [...adder.ports.sum, adder.ports.cout!]).delay);
 }
 
 interface Case {

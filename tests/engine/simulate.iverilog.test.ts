@@ -18,6 +18,7 @@ import type { FlatNetlist } from '../../src/engine/flat';
 import { flatten } from '../../src/engine/flatten';
 import { TimingSimulator, type DelayMode } from '../../src/engine/simulate';
 import { topologicalDelay } from '../../src/engine/topo';
+import { vcdPeriod } from '../../src/engine/vcd';
 import { parseVerilog } from '../../src/engine/verilog/parse';
 import { randomNetlistArb } from './support/flat-gen';
 import { flatToVerilog, hasIverilog, toTransport, traceWithIverilog, type OracleDesign, type OracleStep } from './support/iverilog';
@@ -54,7 +55,7 @@ function traceOurs(flat: FlatNetlist, vectors: bigint[][], mode: DelayMode): Ora
 function periodOf(flat: FlatNetlist): number {
   const c = compile(flat);
   const delay = topologicalDelay(c, Int32Array.from({ length: c.netCount }, (_, i) => i)).delay;
-  return (Math.floor(delay / 10) + 1) * 10;
+  return vcdPeriod(delay);
 }
 
 /** A seeded sequence of input vectors (one bigint per input port). */
