@@ -28,9 +28,9 @@ export interface GenerateOptions {
   name?: string;
 }
 
-const bit = (net: string, index: number | null = null): Bit => ({ net, index });
+export const bit = (net: string, index: number | null = null): Bit => ({ net, index });
 const bus = (name: string, width: number): NetDecl => ({ name, range: { msb: width - 1, lsb: 0 } });
-const scalar = (name: string): NetDecl => ({ name, range: null });
+export const scalar = (name: string): NetDecl => ({ name, range: null });
 
 function checkWidth(width: number): void {
   if (!Number.isInteger(width) || width < 1 || width > MAX_WIDTH) {
@@ -74,7 +74,7 @@ function fullAdderChain(m: number, a: string, b: string, ci: Bit, s: string, car
 }
 
 /** An AND over the given bits into `out`, as one gate up to 8 inputs, else a tree of 8-input gates. */
-function andTree(inputs: Signal, out: Bit, prefix: string, nets: NetDecl[]): Cell[] {
+export function andTree(inputs: Signal, out: Bit, prefix: string, nets: NetDecl[]): Cell[] {
   const cells: Cell[] = [];
   let level = inputs;
   let round = 0;
@@ -96,7 +96,7 @@ function andTree(inputs: Signal, out: Bit, prefix: string, nets: NetDecl[]): Cel
   return cells;
 }
 
-function gate(name: string, kind: Cell['kind'], inputs: Signal, y: Bit): Cell {
+export function gate(name: string, kind: Cell['kind'], inputs: Signal, y: Bit): Cell {
   const pins: Record<string, Signal> = { y: [y] };
   inputs.forEach((b, i) => (pins[`i${i}`] = [b]));
   return { name, kind, pins };

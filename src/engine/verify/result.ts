@@ -1,0 +1,67 @@
+/**
+ * What every verification mode reports (SPEC §5, §7 `verify --json`), and
+ * the one place a counterexample is made: whichever mode finds a mismatch
+ * (bit-parallel, random, decision diagram, SAT), the vector is replayed in
+ * the event-driven simulator and checked against BigInt addition, so the
+ * reported sums are the simulator's own and the reference's own.
+ */
+import { AdderHarness } from '../adder';
+import type { PreparedAdder } from '../pipeline';
+import type { Vector } from '../random';
+
+export type VerifyMode = 'exhaustive' | 'random' | 'proof';
+
+export interface Counterexample {
+  a: bigint;
+  b: bigint;
+  cin: bigint;
+  /** SPEC §5 reference, carry-out as bit n. */
+  expected: bigint;
+  /** The settled sum the simulator produces for this vector. */
+  actual: bigint;
+  /** Indices of the sum bits that differ, least significant first (carry-out is bit n). */
+  bits: number[];
+}
+
+export interface VerifyResult {
+  equivalent: boolean;
+  mode: VerifyMode;
+  /** Vectors checked (for a proof: 0, nothing was enumerated). */
+  vectors: number;
+  /** Seed of a random run, else null. */
+  seed: bigint | null;
+  counterexample: Counterexample | null;
+  /** Proofs only: the method that decided ('bdd' or 'sat'). */
+  method?: 'bdd' | 'sat';
+  /** False when the run was cancelled before covering its whole space. */
+  complete: boolean;
+  elapsedMs: number;
+}
+
+export interface VerifyHooks {
+  /** Called now and then with work done and work in total (vectors, or proof steps). */
+  onProgress?: (done: number, total: number) => void;
+  /** Return true to stop early; the result then says complete: false. */
+  shouldStop?: () => boolean;
+}
+
+/** Indices of the set bits of x, least significant first. */
+export function differingBits(expected: bigint, actual: bigint): number[] {
+  const bits: number[] = [];
+  for (let diff = expected ^ actual, i = 0; diff > 0n; diff >>= 1n, i++) if (diff & 1n) bits.push(i);
+  return bits;
+}
+
+/**
+ * Replay a vector in the event-driven simulator (zero-delay settle) and
+ * compare it with the BigInt reference. Returns null when the simulator
+ * agrees, which would mean the mode that suggested the vector was wrong.
+ */
+export function replayCounterexample(adder: PreparedAdder, v: Vector): Counterexample | null {
+  const harness = new AdderHarness(adder.compiled, adder.ports);
+  const cin = adder.ports.cin === null ? 0n : v.cin;
+  const actual = harness.settle({ a: v.a, b: v.b, cin });
+  const expected = harness.reference({ a: v.a, b: v.b, cin });
+  if (actual === expected) return null;
+  return { a: v.a, b: v.b, cin, expected, actual, bits: differingBits(expected, actual) };
+}
