@@ -115,7 +115,7 @@ function operandLiterals(top: Module, bus: string, value: bigint, width: number)
   return literals;
 }
 
-/** Give block `block` its own copy of its skip-block module whose select AND tree omits p[bitIndex]. */
+/** Give block `block` its own copy of its skip-block module whose select AND tree leaves out p[bitIndex]. */
 function dropPropagate(design: Design, top: Module, block: number, bitIndex: number): void {
   const inst = top.instances[block];
   if (!inst || !inst.module.startsWith('skip_block')) {
@@ -129,12 +129,13 @@ function dropPropagate(design: Design, top: Module, block: number, bitIndex: num
   }
   const faulty: Module = structuredClone(original);
   faulty.name = `${original.name}_fault${block}`;
-  const dropped = bit('p', bitIndex);
-  // Rebuild the select from the propagate bits that remain (constant 1 when none is left).
-  const kept: Signal = Array.from({ length: m }, (_, i) => bit('p', i)).filter((b) => !sameBit(b, dropped));
-  faulty.cells = faulty.cells.filter((c) => !(c.name.startsWith('and_bp') || c.name === 'buf_bp'));
+  // The slip: the select leaves p[bitIndex] out, and the XOR that made it
+  // went with it, so every remaining net is used and lint has nothing to
+  // say; only the checks can find it. With no bit left the select is tied to 1.
+  const select: Signal = Array.from({ length: m }, (_, i) => bit('p', i)).filter((_, i) => i !== bitIndex);
+  faulty.cells = faulty.cells.filter((c) => !(c.name.startsWith('and_bp') || c.name === 'buf_bp' || c.name === `px${bitIndex}`));
   faulty.nets = faulty.nets.filter((n) => !/^bp\d+_\d+$/.test(n.name));
-  faulty.cells.push(...(kept.length > 0 ? andTree(kept, bit('bp'), 'bp', faulty.nets) : [gate('buf_bp', 'buf', [{ const: 1 }], bit('bp'))]));
+  faulty.cells.push(...(select.length > 0 ? andTree(select, bit('bp'), 'bp', faulty.nets) : [gate('buf_bp', 'buf', [{ const: 1 }], bit('bp'))]));
   design.modules.splice(design.modules.indexOf(original) + 1, 0, faulty);
   inst.module = faulty.name;
 }
