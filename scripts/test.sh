@@ -7,13 +7,14 @@ cd "$(dirname "$0")/.."
 missing=()
 [ -x /usr/bin/chromium ] || command -v chromium >/dev/null 2>&1 || missing+=(chromium)
 command -v iverilog >/dev/null 2>&1 || missing+=(iverilog)
+command -v yosys >/dev/null 2>&1 || missing+=(yosys)
 if [ ${#missing[@]} -gt 0 ]; then
   if [ "$(id -u)" = 0 ]; then
-    echo "[test] installing Debian packages: chromium iverilog"
+    echo "[test] installing Debian packages: ${missing[*]}"
     apt-get update
-    apt-get install -y chromium iverilog
+    apt-get install -y "${missing[@]}"
   else
-    echo "[test] missing: ${missing[*]}. Install them with: sudo apt-get install -y chromium iverilog" >&2
+    echo "[test] missing: ${missing[*]}. Install them with: sudo apt-get install -y ${missing[*]}" >&2
     exit 1
   fi
 fi
