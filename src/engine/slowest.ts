@@ -35,7 +35,15 @@ export const LOCAL_SHARE = 0.3;
 /** Pairs the local search climbs from: the slowest distinct pairs of the earlier phases. */
 const LOCAL_STARTS = 8;
 
-export type PairSearch = { mode: 'exhaustive' } | { mode: 'random'; count: number; seed: bigint };
+export type PairSearch =
+  | { mode: 'exhaustive' }
+  | {
+      mode: 'random';
+      count: number;
+      seed: bigint;
+      /** Shares of the budget for the directed pairs (at most) and the local search (defaults DIRECTED_SHARE, LOCAL_SHARE). */
+      shares?: { directed: number; local: number };
+    };
 
 /** The phase that timed the worst pair first. */
 export type FoundBy = 'exhaustive' | 'directed' | 'random' | 'local';
@@ -127,9 +135,16 @@ function searchExhaustive(adder: PreparedAdder, harness: AdderHarness, hooks: Se
 }
 
 /** How a guided budget of `count` pairs splits into the three phases. */
-export function guidedBudget(count: number, directedAvailable: number): { directed: number; random: number; local: number } {
-  const directed = Math.min(directedAvailable, Math.ceil(count * DIRECTED_SHARE));
-  const local = Math.min(count - directed, Math.floor(count * LOCAL_SHARE));
+export function guidedBudget(
+  count: number,
+  directedAvailable: number,
+  shares = { directed: DIRECTED_SHARE, local: LOCAL_SHARE },
+): { directed: number; random: number; local: number } {
+  for (const [phase, share] of Object.entries(shares)) {
+    if (!(share >= 0 && share <= 1)) throw new EngineError('pairs', `the ${phase} share ${share} of the pair budget is not between 0 and 1`);
+  }
+  const directed = Math.min(directedAvailable, Math.ceil(count * shares.directed));
+  const local = Math.min(count - directed, Math.floor(count * shares.local));
   return { directed, random: count - directed - local, local };
 }
 
@@ -173,7 +188,8 @@ function mutate(pair: VectorPair, rng: SeededRandom, width: number, hasCin: bool
   return { from, to };
 }
 
-function searchGuided(adder: PreparedAdder, harness: AdderHarness, count: number, seed: bigint, hooks: SearchHooks): PairTimer {
+function searchGuided(adder: PreparedAdder, harness: AdderHarness, search: PairSearch & { mode: 'random' }, hooks: SearchHooks): PairTimer {
+  const { count, seed } = search;
   if (!Number.isSafeInteger(count) || count < 0) {
     throw new EngineError('pairs', `random pair count ${count} is not a whole number ≥ 0`);
   }
@@ -188,7 +204,7 @@ function searchGuided(adder: PreparedAdder, harness: AdderHarness, count: number
   };
 
   const directed = directedPairs(width, hasCin);
-  const budget = guidedBudget(count, directed.length);
+  const budget = guidedBudget(count, directed.length, search.shares);
   for (let k = 0; k < budget.directed && !timer.stopped; k++) time(directed[k], 'directed');
 
   const rng = new SeededRandom(seed);
@@ -211,7 +227,7 @@ export function searchSlowest(adder: PreparedAdder, search: PairSearch, mode: De
   const { compiled, ports } = adder;
   const topo = topologicalDelay(compiled, ports.cout === null ? ports.sum : [...ports.sum, ports.cout]);
   const harness = new AdderHarness(compiled, ports, { mode });
-  const timer = search.mode === 'exhaustive' ? searchExhaustive(adder, harness, hooks) : searchGuided(adder, harness, search.count, search.seed, hooks);
+  const timer = search.mode === 'exhaustive' ? searchExhaustive(adder, harness, hooks) : searchGuided(adder, harness, search, hooks);
   hooks.onProgress?.(timer.done, timer.total);
 
   const found = timer.best;
