@@ -4,7 +4,7 @@
  * `new Function`. Runs wherever JavaScript does, the browser's main thread
  * included; the WebAssembly back end is about four times wider.
  */
-import { P_AND, P_MUX, P_NOT, P_OR, P_SLOT, P_XOR, ONE, ZERO, INNER_BITS, lanePattern, scanSlot, schedule, type AdderProgram, type CheckKernel, type ScanKernel } from './bitsliced-program';
+import { P_AND, P_MUX, P_NOT, P_OR, P_SLOT, P_XOR, ONE, ZERO, lanePattern, scanSlot, schedule, type AdderProgram, type CheckKernel, type ScanKernel } from './bitsliced-program';
 
 const LANES = 32;
 export const JS_LANE_BITS = 5;
@@ -36,16 +36,16 @@ function lines(ap: AdderProgram, values: number[], slotExpr: (p: number) => stri
 
 const root = (ap: AdderProgram) => (ap.diff === ZERO ? '0' : ap.diff === ONE ? '-1' : `v${ap.diff}`);
 
-/** Exhaustive kernel; see `ScanKernel`. Word bit j is −((w >>> j) & 1) broadcast over the lanes. */
-export function jsScanKernel(ap: AdderProgram): ScanKernel {
-  const levels = schedule(ap.program, ap.diff, (p) => scanSlot(p, JS_LANE_BITS).level);
+/** Exhaustive kernel; see `ScanKernel` and `scanSlot`. Word bit j is −((w >>> j) & 1) broadcast over the lanes. */
+export function jsScanKernel(ap: AdderProgram, innerBits: number): ScanKernel {
+  const levels = schedule(ap.program, ap.diff, (p) => scanSlot(p, JS_LANE_BITS, innerBits).level);
   const slotExpr = (p: number): string => {
-    const s = scanSlot(p, JS_LANE_BITS);
+    const s = scanSlot(p, JS_LANE_BITS, innerBits);
     if (s.from === 'lane') return String(lanePattern(s.bit, LANES)[0]);
     const reg = s.from === 'hi' ? 'hi' : s.from === 'outer' ? 'o' : 'i';
     return `-((${reg} >>> ${s.bit}) & 1)`;
   };
-  const block = 2 ** INNER_BITS;
+  const block = 2 ** innerBits;
   const body = `"use strict";
 ${lines(ap, levels[0], slotExpr)}
 for (let o = lo, oe = 0; o < end; o = oe) {

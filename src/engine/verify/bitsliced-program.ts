@@ -7,8 +7,10 @@
  * v128) only spell it out.
  *
  * Values are numbered in creation order, so every operand precedes its use.
- * Building hash-conses and folds constants: a netlist gate that recomputes
- * a ⊕ b shares it with the reference, and cells fed by constants vanish.
+ * Building folds constants and hash-conses within a scope: the netlist and
+ * the reference are built in scopes of their own, so the reference never
+ * borrows the netlist's gates (a ripple-carry netlist would otherwise fold
+ * into the reference and the check would evaluate nothing of it).
  */
 import { K_AND, K_BUF, K_EXPR, K_FA, K_HA, K_MUX2, K_NAND, K_NOR, K_NOT, K_OR, K_XNOR, K_XOR, OP_AND, OP_C0, OP_C1, OP_IN, OP_MUX, OP_NOT, OP_OR, OP_XOR } from '../compile';
 import type { PreparedAdder } from '../pipeline';
@@ -35,6 +37,8 @@ export class SliceProgram {
   readonly y: number[] = [];
   readonly z: number[] = [];
   private readonly known = new Map<string, number>();
+  /** Values are shared only within one scope (slots and constants in all). */
+  scope = 0;
 
   constructor() {
     this.add(P_ZERO, 0, 0, 0);
@@ -46,7 +50,11 @@ export class SliceProgram {
   }
 
   slot(p: number): number {
-    return this.intern(P_SLOT, p, 0, 0);
+    const scope = this.scope;
+    this.scope = 0;
+    const v = this.intern(P_SLOT, p, 0, 0);
+    this.scope = scope;
+    return v;
   }
 
   not(a: number): number {
@@ -105,7 +113,7 @@ export class SliceProgram {
   }
 
   private intern(op: number, x: number, y: number, z: number): number {
-    const key = `${op},${x},${y},${z}`;
+    const key = `${this.scope},${op},${x},${y},${z}`;
     const seen = this.known.get(key);
     if (seen !== undefined) return seen;
     const id = this.add(op, x, y, z);
@@ -186,6 +194,7 @@ export function buildAdderProgram(adder: PreparedAdder): AdderProgram {
   }
 
   // Reference: a bit-sliced ripple of A + B + cin.
+  p.scope = 1;
   const width = ports.width;
   const a = (i: number) => p.slot((ports.cin === null ? 0 : 1) + i);
   const b = (i: number) => p.slot((ports.cin === null ? 0 : 1) + width + i);
@@ -314,14 +323,20 @@ export type ScanSlot =
   | { from: 'hi'; bit: number; level: 0 }
   | { from: 'outer' | 'inner'; bit: number; level: 1 | 2 };
 
-/** Most word bits enumerated by the inner loop (the rest change once per 2^INNER_BITS words, in the outer loop). */
+/**
+ * Word bits enumerated by the inner loop; the rest change once per
+ * 2^INNER_BITS words, so whatever depends only on them and the lanes (for an
+ * adder: the low bit slices, carry chain included) is computed in the outer
+ * loop. 31 puts every word bit in the inner loop: no hoisting.
+ */
 export const INNER_BITS = 6;
+export const NO_HOIST = 31;
 
-export function scanSlot(p: number, laneBits: number): ScanSlot {
+export function scanSlot(p: number, laneBits: number, innerBits: number): ScanSlot {
   if (p < laneBits) return { from: 'lane', bit: p, level: 0 };
   const bit = p - laneBits;
   if (bit >= 31) return { from: 'hi', bit: bit - 31, level: 0 };
-  return bit >= INNER_BITS ? { from: 'outer', bit, level: 1 } : { from: 'inner', bit, level: 2 };
+  return bit >= innerBits ? { from: 'outer', bit, level: 1 } : { from: 'inner', bit, level: 2 };
 }
 
 /** Lane l of the pattern of lane bit `bit`, as 32-bit words: bit l is (l >> bit) & 1. */

@@ -6,7 +6,7 @@
  * (and an engine may lack SIMD), and then the caller falls back to the
  * JavaScript back end (`wasmScanKernel`/`wasmCheckKernel` return null).
  */
-import { P_AND, P_MUX, P_NOT, P_OR, P_SLOT, P_XOR, ONE, ZERO, INNER_BITS, lanePattern, scanSlot, schedule, type AdderProgram, type CheckKernel, type ScanKernel } from './bitsliced-program';
+import { P_AND, P_MUX, P_NOT, P_OR, P_SLOT, P_XOR, ONE, ZERO, lanePattern, scanSlot, schedule, type AdderProgram, type CheckKernel, type ScanKernel } from './bitsliced-program';
 
 const LANES = 128;
 export const WASM_LANE_BITS = 7;
@@ -243,22 +243,22 @@ function instantiate(bytes: Uint8Array): { run: (...args: number[]) => number; m
   }
 }
 
-/** Exhaustive kernel (see `ScanKernel`), or null where WebAssembly SIMD cannot run here. */
-export function wasmScanKernel(ap: AdderProgram): ScanKernel | null {
-  const levels = schedule(ap.program, ap.diff, (p) => scanSlot(p, WASM_LANE_BITS).level);
+/** Exhaustive kernel (see `ScanKernel` and `scanSlot`), or null where WebAssembly SIMD cannot run here. */
+export function wasmScanKernel(ap: AdderProgram, innerBits: number): ScanKernel | null {
+  const levels = schedule(ap.program, ap.diff, (p) => scanSlot(p, WASM_LANE_BITS, innerBits).level);
   // i32 locals: parameters hi, lo, end; then o, oe, i.
   const [HI, LO, END_, O, OE, I] = [0, 1, 2, 3, 4, 5];
   const body = new Body(ap, 6);
   const slot = (p: number) => {
-    const s = scanSlot(p, WASM_LANE_BITS);
+    const s = scanSlot(p, WASM_LANE_BITS, innerBits);
     if (s.from === 'lane') body.v128Const(lanePattern(s.bit, LANES));
     else body.broadcastBit(s.from === 'hi' ? HI : s.from === 'outer' ? O : I, s.bit);
   };
   body.values(levels[0], slot).get(LO).set(O);
   body.op(BLOCK, EMPTY, LOOP, EMPTY);
   body.get(O).get(END_).op(I32_GE_U, BR_IF, 1);
-  // oe = min(end, the next multiple of 2^INNER_BITS above o)
-  body.get(O).i32(INNER_BITS).op(I32_SHR_U).i32(1).op(I32_ADD).i32(INNER_BITS).op(I32_SHL).tee(OE);
+  // oe = min(end, the next multiple of 2^innerBits above o), at most 2^31 (unsigned)
+  body.get(O).i32(innerBits).op(I32_SHR_U).i32(1).op(I32_ADD).i32(innerBits).op(I32_SHL).tee(OE);
   body.get(END_).get(OE).get(END_).op(I32_LT_U, SELECT).set(OE);
   body.values(levels[1], slot).get(O).set(I);
   body.op(LOOP, EMPTY).values(levels[2], slot).returnIfDiffers(I);

@@ -16,7 +16,7 @@
 import { EngineError } from '../errors';
 import type { PreparedAdder } from '../pipeline';
 import { SeededRandom } from '../random';
-import { buildAdderProgram, WORD_SPLIT, type AdderProgram, type CheckKernel, type ScanKernel } from './bitsliced-program';
+import { buildAdderProgram, INNER_BITS, NO_HOIST, WORD_SPLIT, type AdderProgram, type CheckKernel, type ScanKernel } from './bitsliced-program';
 import { jsCheckKernel, jsScanKernel } from './bitsliced-js';
 import { wasmCheckKernel, wasmScanKernel } from './bitsliced-wasm';
 import { replayCounterexample, type Counterexample, type VerifyHooks, type VerifyResult } from './result';
@@ -29,6 +29,12 @@ export interface ExhaustiveOptions {
   /** Part of the vector space to cover (default: all of it). */
   shard?: Shard;
   backend?: Backend;
+  /**
+   * Compute what depends only on slowly changing inputs once per 2^6 words
+   * (default true). False evaluates every cell for every word: for
+   * benchmarks that want the plain evaluation rate.
+   */
+  hoist?: boolean;
 }
 
 export interface RandomOptions {
@@ -46,7 +52,8 @@ const RANDOM_BATCH = 4096;
 
 interface Compiled {
   program: AdderProgram;
-  scan: Partial<Record<'wasm' | 'js', ScanKernel | null>>;
+  /** Keyed by back end and inner bits. */
+  scan: Map<string, ScanKernel | null>;
   check: Partial<Record<'wasm' | 'js', CheckKernel | null>>;
 }
 
@@ -56,7 +63,7 @@ const cache = new WeakMap<PreparedAdder, Compiled>();
 function compiledFor(adder: PreparedAdder): Compiled {
   let c = cache.get(adder);
   if (!c) {
-    c = { program: buildAdderProgram(adder), scan: {}, check: {} };
+    c = { program: buildAdderProgram(adder), scan: new Map(), check: {} };
     cache.set(adder, c);
   }
   return c;
@@ -75,11 +82,13 @@ function pick<K>(backend: Backend, make: (b: 'wasm' | 'js') => K | null): K {
 }
 
 /** The exhaustive kernel for this adder (for tests and benchmarks: which lanes it uses). */
-export function scanKernelFor(adder: PreparedAdder, backend: Backend = 'auto'): ScanKernel {
+export function scanKernelFor(adder: PreparedAdder, backend: Backend = 'auto', hoist = true): ScanKernel {
   const c = compiledFor(adder);
+  const innerBits = hoist ? INNER_BITS : NO_HOIST;
   return pick(backend, (b) => {
-    if (c.scan[b] === undefined) c.scan[b] = b === 'wasm' ? wasmScanKernel(c.program) : jsScanKernel(c.program);
-    return c.scan[b]!;
+    const key = `${b}/${innerBits}`;
+    if (!c.scan.has(key)) c.scan.set(key, b === 'wasm' ? wasmScanKernel(c.program, innerBits) : jsScanKernel(c.program, innerBits));
+    return c.scan.get(key)!;
   });
 }
 
@@ -134,7 +143,7 @@ export function verifyExhaustive(adder: PreparedAdder, opts: ExhaustiveOptions =
   }
   const total = 2 ** bits;
   const { start, end } = shardRange(total, opts.shard);
-  const kernel = scanKernelFor(adder, opts.backend ?? 'auto');
+  const kernel = scanKernelFor(adder, opts.backend ?? 'auto', opts.hoist ?? true);
   const lanes = kernel.lanes;
   const endWord = Math.ceil(end / lanes);
   let word = Math.floor(start / lanes);
