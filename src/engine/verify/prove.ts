@@ -19,8 +19,7 @@
  * Cancelled proofs (hooks.shouldStop) report equivalent: false,
  * complete: false and no counterexample: nothing was shown either way.
  */
-import { K_AND, K_EXPR, K_NAND, K_NOR, K_OR, K_XNOR, K_XOR, OP_AND, OP_C1, OP_IN, OP_MUX, OP_NOT, OP_OR, OP_XOR } from '../compile';
-import type { CompiledNetlist } from '../compile';
+import { K_AND, K_EXPR, K_NAND, K_NOR, K_OR, K_XNOR, OP_AND, OP_C1, OP_IN, OP_MUX, OP_NOT, OP_OR, OP_XOR, type CompiledNetlist } from '../compile';
 import { EngineError } from '../errors';
 import type { AdderPorts } from '../flat';
 import type { PreparedAdder } from '../pipeline';
@@ -45,7 +44,7 @@ export type ProofOutcome =
   | { status: 'stopped' };
 
 /** Cells between two progress reports and stop checks. */
-export const PROGRESS_EVERY = 64;
+const PROGRESS_EVERY = 64;
 
 export function proveAdder(adder: PreparedAdder, opts: ProveOptions = {}, hooks: VerifyHooks = {}): VerifyResult {
   const start = performance.now();
@@ -214,13 +213,17 @@ function fromTable(bdd: Bdd, c: CompiledNetlist, cell: number, k: number, f: Int
 
 /** and/or/xor (and inversions) over more inputs than the truth table holds. */
 function wideGate(bdd: Bdd, kind: number, ins: Int32Array, f: Int32Array): number {
-  const op = kind === K_AND || kind === K_NAND ? bdd.and : kind === K_OR || kind === K_NOR ? bdd.or : bdd.xor;
+  const and = kind === K_AND || kind === K_NAND;
+  const or = kind === K_OR || kind === K_NOR;
   let r = f[ins[0]];
-  for (let i = 1; i < ins.length; i++) r = op.call(bdd, r, f[ins[i]]);
+  for (let i = 1; i < ins.length; i++) {
+    const x = f[ins[i]];
+    r = and ? bdd.and(r, x) : or ? bdd.or(r, x) : bdd.xor(r, x);
+  }
   return kind === K_NAND || kind === K_NOR || kind === K_XNOR ? bdd.not(r) : r;
 }
 
-/** An expression cell's bytecode (compile.ts OP_*) run on a stack of diagrams. */
+/** An expression cell's bytecode (compile.ts OP_*, input pin in the bits above the 3-bit opcode) on a stack of diagrams. */
 function fromCode(bdd: Bdd, c: CompiledNetlist, cell: number, f: Int32Array, stack: Int32Array): number {
   const s = c.inStart[cell];
   let sp = 0;

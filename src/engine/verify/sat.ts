@@ -12,8 +12,7 @@
  */
 // @ts-expect-error -- logic-solver ships no type declarations; the part used is typed by LogicModule below.
 import LogicUntyped from 'logic-solver';
-import type { CompiledNetlist } from '../compile';
-import { K_AND, K_EXPR, K_NAND, K_NOR, K_OR, K_XNOR, OP_AND, OP_C1, OP_IN, OP_MUX, OP_NOT, OP_OR, OP_XOR } from '../compile';
+import { K_AND, K_EXPR, K_NAND, K_NOR, K_OR, K_XNOR, OP_AND, OP_C1, OP_IN, OP_MUX, OP_NOT, OP_OR, OP_XOR, type CompiledNetlist } from '../compile';
 import type { PreparedAdder } from '../pipeline';
 import type { ProofOutcome } from './prove';
 import type { VerifyHooks } from './result';
@@ -35,7 +34,7 @@ interface LogicModule {
 }
 const Logic = LogicUntyped as LogicModule;
 
-/** Cells between two progress reports and stop checks (as in prove.ts). */
+/** Cells between two progress reports and stop checks. */
 const PROGRESS_EVERY = 64;
 
 /**
