@@ -1,0 +1,177 @@
+/**
+ * `verify --exhaustive` on every core. The vector space is cut into
+ * contiguous shards (vectors.ts `shardRange`), one per thread; this thread
+ * runs shard 0 while worker threads run the others. Shards share a small
+ * control block: a stop flag (cancel) and the lowest shard that found a
+ * mismatch, so a shard behind it stops early (its mismatch could not be the
+ * first) while the shards before it run to the end (theirs would be).
+ *
+ * Merging gives exactly what one thread would: the counterexample of the
+ * lowest shard that has one, and vectors summed over the shards up to it
+ * (the whole space when none has one).
+ */
+import { availableParallelism } from 'node:os';
+import { readFileSync } from 'node:fs';
+import { createRequire } from 'node:module';
+import { dirname, join } from 'node:path';
+import { pathToFileURL } from 'node:url';
+import { Worker, parentPort, workerData } from 'node:worker_threads';
+import { EngineError } from '../engine/errors';
+import type { DelayTable, Design, PortMap } from '../engine/model';
+import { prepareAdder } from '../engine/pipeline';
+import { verifyExhaustive, type Backend } from '../engine/verify/bitsliced';
+import type { VerifyHooks, VerifyResult } from '../engine/verify/result';
+import { spaceBits, type Shard } from '../engine/verify/vectors';
+
+/** Below this many vectors (a few tenths of a second on one core) starting threads costs more than it saves. */
+export const PARALLEL_MIN_VECTORS = 2 ** 30;
+
+export interface VerifyRequest {
+  design: Design;
+  map?: PortMap;
+  delayTable?: DelayTable;
+  backend?: Backend;
+}
+
+export interface ParallelOptions {
+  /**
+   * URL of a module that calls `serveVerifyShard()` when it starts as a
+   * worker with `isVerifyShard(workerData)` (the command line's main module,
+   * bundled or not). Default: this module itself. TypeScript source is
+   * loaded through tsx (tests, benchmarks).
+   */
+  entry?: string;
+  hooks?: VerifyHooks;
+  /** Spaces smaller than this run on one thread (default PARALLEL_MIN_VECTORS). */
+  minVectors?: number;
+}
+
+const JOB_TAG = 'skiplane-verify-shard';
+
+/** Control block words. */
+const STOP = 0;
+const FIRST_FOUND = 1;
+
+interface ShardJob {
+  tag: typeof JOB_TAG;
+  request: VerifyRequest;
+  shard: Shard;
+  /** Int32 words STOP and FIRST_FOUND. */
+  control: SharedArrayBuffer;
+  /** Float64 per shard: vectors done so far (for progress). */
+  progress: SharedArrayBuffer;
+}
+
+type ShardResult = { ok: true; result: VerifyResult } | { ok: false; code: string; message: string };
+
+/** Whether a worker's data is a verify shard (for the entry module's dispatch). */
+export function isVerifyShard(data: unknown): boolean {
+  return typeof data === 'object' && data !== null && (data as { tag?: unknown }).tag === JOB_TAG;
+}
+
+/** `local`: this thread's shard reports progress over all shards and passes a cancel on to the others. */
+function runShard(job: ShardJob, local: { onProgress?: (done: number) => void; shouldStop?: () => boolean } = {}): ShardResult {
+  const control = new Int32Array(job.control);
+  const progress = new Float64Array(job.progress);
+  const me = job.shard.index;
+  try {
+    const prepared = prepareAdder(job.request.design, { map: job.request.map, delayTable: job.request.delayTable });
+    if (!prepared.adder) throw new EngineError('lint', 'the design has lint errors: run lint first');
+    const result = verifyExhaustive(
+      prepared.adder,
+      { shard: job.shard, backend: job.request.backend },
+      {
+        onProgress: (done) => {
+          progress[me] = done;
+          local.onProgress?.(progress.reduce((sum, x) => sum + x, 0));
+        },
+        shouldStop: () => {
+          if (local.shouldStop?.()) Atomics.store(control, STOP, 1);
+          return Atomics.load(control, STOP) !== 0 || Atomics.load(control, FIRST_FOUND) < me;
+        },
+      },
+    );
+    if (result.counterexample) lowerTo(control, FIRST_FOUND, me);
+    return { ok: true, result };
+  } catch (e) {
+    // Whatever failed, the other shards need not go on.
+    Atomics.store(control, STOP, 1);
+    if (e instanceof EngineError) return { ok: false, code: e.code, message: e.message };
+    throw e;
+  }
+}
+
+/** control[at] = min(control[at], value), atomically (JavaScript's Atomics has no min). */
+function lowerTo(control: Int32Array, at: number, value: number): void {
+  for (let seen = Atomics.load(control, at); value < seen; ) {
+    const was = Atomics.compareExchange(control, at, seen, value);
+    if (was === seen) return;
+    seen = was;
+  }
+}
+
+/** Entry point of a shard thread. */
+export function serveVerifyShard(): void {
+  parentPort!.postMessage(runShard(workerData as ShardJob));
+}
+
+/** tsx's ES module API (its package exports map; the CommonJS build cannot register from a worker). */
+function tsxApiUrl(): string {
+  const require = createRequire(import.meta.url);
+  const manifest = require.resolve('tsx/package.json');
+  const target = (JSON.parse(readFileSync(manifest, 'utf8')) as { exports: Record<string, { import: { default: string } }> }).exports['./esm/api'].import.default;
+  return pathToFileURL(join(dirname(manifest), target)).href;
+}
+
+function runShardInThread(entry: string | undefined, job: ShardJob): Promise<ShardResult> {
+  const url = entry ?? import.meta.url;
+  // Run from TypeScript source (tsx, vitest), the thread first registers tsx's loader, which workers do not inherit.
+  const loader = url.endsWith('.ts') ? `await (await import(${JSON.stringify(tsxApiUrl())})).register();` : '';
+  // An entry module serves the shard itself when it sees the job; this module is told to.
+  const serve = entry ? '' : '.serveVerifyShard()';
+  const worker = new Worker(`(async () => { ${loader} (await import(${JSON.stringify(url)}))${serve}; })()`, { eval: true, workerData: job, argv: [] });
+  return new Promise((resolve, reject) => {
+    worker.once('message', resolve);
+    worker.once('error', reject);
+    worker.once('exit', (code) => code !== 0 && reject(new Error(`verification thread stopped with code ${code}`)));
+  });
+}
+
+/** What one thread would have reported, from the shards' results in shard order. */
+export function mergeShardResults(results: VerifyResult[], elapsedMs: number): VerifyResult {
+  let vectors = 0;
+  let complete = true;
+  for (const r of results) {
+    vectors += r.vectors;
+    complete &&= r.complete;
+    if (r.counterexample) return { ...r, vectors, complete, elapsedMs };
+  }
+  return { equivalent: complete, mode: 'exhaustive', vectors, seed: null, counterexample: null, complete, elapsedMs };
+}
+
+/**
+ * Exhaustive verification of a design (which must have passed lint) on up
+ * to `threads` threads, this one included. Progress is reported as vectors
+ * done over the whole space; `shouldStop` is asked by this thread's shard.
+ */
+export async function verifyExhaustiveParallel(request: VerifyRequest, threads = availableParallelism(), opts: ParallelOptions = {}): Promise<VerifyResult> {
+  const t0 = performance.now();
+  const prepared = prepareAdder(request.design, { map: request.map, delayTable: request.delayTable });
+  if (!prepared.adder) throw new EngineError('lint', 'the design has lint errors: run lint first');
+  const total = 2 ** spaceBits(prepared.adder.ports);
+  const parts = total < (opts.minVectors ?? PARALLEL_MIN_VECTORS) ? 1 : Math.max(1, Math.floor(threads));
+  const control = new SharedArrayBuffer(8);
+  new Int32Array(control)[FIRST_FOUND] = parts;
+  const progress = new SharedArrayBuffer(8 * parts);
+  const jobs: ShardJob[] = Array.from({ length: parts }, (_, index) => ({ tag: JOB_TAG, request, shard: { index, count: parts }, control, progress }));
+  const pending = jobs.slice(1).map((job) => runShardInThread(opts.entry, job));
+  const hooks = opts.hooks ?? {};
+  const first = runShard(jobs[0], { onProgress: (done) => hooks.onProgress?.(done, total), shouldStop: hooks.shouldStop });
+  const results = [first, ...(await Promise.all(pending))];
+  const failed = results.find((r) => !r.ok);
+  if (failed && !failed.ok) throw new EngineError(failed.code, failed.message);
+  return mergeShardResults(
+    results.map((r) => (r as { ok: true; result: VerifyResult }).result),
+    performance.now() - t0,
+  );
+}
