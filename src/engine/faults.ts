@@ -76,7 +76,8 @@ const sameBit = (x: Bit, y: Bit): boolean => 'net' in x && 'net' in y && x.net =
  * literal is 1.
  */
 function invertWhen(top: Module, target: Bit, literals: Signal, prefix: string): void {
-  const raw = bit(`${prefix}_raw`);
+  const rawName = `${prefix}_raw`;
+  const raw = bit(rawName);
   let found = false;
   const reroute = (signal: Signal): Signal =>
     signal.map((b) => {
@@ -91,7 +92,7 @@ function invertWhen(top: Module, target: Bit, literals: Signal, prefix: string):
     for (const port of ['s', 'co', 'cout']) if (inst.connections[port]) inst.connections[port] = reroute(inst.connections[port]);
   }
   if (!found) throw new EngineError('fault', `nothing in ${top.name} drives the output bit to corrupt`);
-  top.nets.push(scalar(raw.net as string), scalar(`${prefix}_hit`));
+  top.nets.push(scalar(rawName), scalar(`${prefix}_hit`));
   top.cells.push(...andTree(literals, bit(`${prefix}_hit`), `${prefix}_and`, top.nets));
   top.cells.push(gate(`${prefix}_xor`, 'xor', [raw, bit(`${prefix}_hit`)], target));
 }
