@@ -156,13 +156,13 @@ class Slowest {
   readonly pairs: Timed[] = [];
   constructor(private readonly size: number) {}
 
-  offer(pair: Timed): void {
+  offer(pair: VectorPair, delay: number): void {
     const list = this.pairs;
-    if (list.length === this.size && pair.delay <= list[list.length - 1].delay) return;
+    if (list.length === this.size && delay <= list[list.length - 1].delay) return;
     if (list.some((p) => samePair(p, pair))) return;
     let at = list.length;
-    while (at > 0 && list[at - 1].delay < pair.delay) at--;
-    list.splice(at, 0, pair);
+    while (at > 0 && list[at - 1].delay < delay) at--;
+    list.splice(at, 0, { ...pair, delay });
     if (list.length > this.size) list.pop();
   }
 }
@@ -199,7 +199,7 @@ function searchGuided(adder: PreparedAdder, harness: AdderHarness, search: PairS
   const slowest = new Slowest(LOCAL_STARTS);
   const time = (pair: VectorPair, phase: FoundBy) => {
     const delay = timer.time(pair.from, pair.to, phase);
-    slowest.offer({ ...pair, delay });
+    slowest.offer(pair, delay);
     return delay;
   };
 
