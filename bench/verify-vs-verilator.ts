@@ -159,7 +159,7 @@ export async function benchVerifyVsVerilator(): Promise<VerifyBench> {
   // (b) the whole 16-bit adder on every core.
   const threads = availableParallelism();
   const t0 = performance.now();
-  const r = await verifyExhaustiveParallel({ design: generateAdder({ arch: 'skip', width: WHOLE_WIDTH, block: BLOCK }) }, threads);
+  const r = await verifyExhaustiveParallel(undefined, { design: generateAdder({ arch: 'skip', width: WHOLE_WIDTH, block: BLOCK }) }, threads);
   const wallMs = performance.now() - t0;
   if (!r.equivalent || r.vectors !== 2 ** (2 * WHOLE_WIDTH + 1)) throw new Error(`16-bit run: equivalent ${r.equivalent}, ${r.vectors} vectors`);
   const best = runs[0];

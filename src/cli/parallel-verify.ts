@@ -34,13 +34,6 @@ export interface VerifyRequest {
 }
 
 export interface ParallelOptions {
-  /**
-   * URL of a module that calls `serveVerifyShard()` when it starts as a
-   * worker with `isVerifyShard(workerData)` (the command line's main module,
-   * bundled or not). Default: this module itself. TypeScript source is
-   * loaded through tsx (tests, benchmarks).
-   */
-  entry?: string;
   hooks?: VerifyHooks;
   /** Spaces smaller than this run on one thread (default PARALLEL_MIN_VECTORS). */
   minVectors?: number;
@@ -126,7 +119,7 @@ function tsxApiUrl(): string {
 function runShardInThread(entry: string | undefined, job: ShardJob): Promise<ShardResult> {
   const url = entry ?? import.meta.url;
   // Run from TypeScript source (tsx, vitest), the thread first registers tsx's loader, which workers do not inherit.
-  const loader = url.endsWith('.ts') ? `await (await import(${JSON.stringify(tsxApiUrl())})).register();` : '';
+  const loader = /\.[cm]?tsx?$/.test(new URL(url).pathname) ? `await (await import(${JSON.stringify(tsxApiUrl())})).register();` : '';
   // An entry module serves the shard itself when it sees the job; this module is told to.
   const serve = entry ? '' : '.serveVerifyShard()';
   const worker = new Worker(`(async () => { ${loader} (await import(${JSON.stringify(url)}))${serve}; })()`, { eval: true, workerData: job, argv: [] });
@@ -153,8 +146,18 @@ export function mergeShardResults(results: VerifyResult[], elapsedMs: number): V
  * Exhaustive verification of a design (which must have passed lint) on up
  * to `threads` threads, this one included. Progress is reported as vectors
  * done over the whole space; `shouldStop` is asked by this thread's shard.
+ *
+ * `entry` is the URL of a module that calls `serveVerifyShard()` when it
+ * starts as a worker whose data passes `isVerifyShard` (the command line's
+ * main module, bundled or not); undefined: this module itself. TypeScript
+ * source is loaded through tsx, so threads work from source too.
  */
-export async function verifyExhaustiveParallel(request: VerifyRequest, threads = availableParallelism(), opts: ParallelOptions = {}): Promise<VerifyResult> {
+export async function verifyExhaustiveParallel(
+  entry: string | undefined,
+  request: VerifyRequest,
+  threads = availableParallelism(),
+  opts: ParallelOptions = {},
+): Promise<VerifyResult> {
   const t0 = performance.now();
   const prepared = prepareAdder(request.design, { map: request.map, delayTable: request.delayTable });
   if (!prepared.adder) throw new EngineError('lint', 'the design has lint errors: run lint first');
@@ -164,7 +167,7 @@ export async function verifyExhaustiveParallel(request: VerifyRequest, threads =
   new Int32Array(control)[FIRST_FOUND] = parts;
   const progress = new SharedArrayBuffer(8 * parts);
   const jobs: ShardJob[] = Array.from({ length: parts }, (_, index) => ({ tag: JOB_TAG, request, shard: { index, count: parts }, control, progress }));
-  const pending = jobs.slice(1).map((job) => runShardInThread(opts.entry, job));
+  const pending = jobs.slice(1).map((job) => runShardInThread(entry, job));
   const hooks = opts.hooks ?? {};
   const first = runShard(jobs[0], { onProgress: (done) => hooks.onProgress?.(done, total), shouldStop: hooks.shouldStop });
   const results = [first, ...(await Promise.all(pending))];

@@ -25,32 +25,32 @@ describe('verifyExhaustiveParallel', () => {
     const twoFaults = plantFault(plantFault(skip7, { kind: 'sum-bit-for-one-pair', bit: 3, a: 0x05n, b: 0x11n }), { kind: 'carry-out-all-ones-cin' });
     for (const design of [skip7, twoFaults, plantFault(skip7, { kind: 'carry-out-all-ones-cin' })]) {
       const one = verifyExhaustive(prepareAdder(design).adder!);
-      const many = await verifyExhaustiveParallel({ design }, 3, { minVectors: 0 });
+      const many = await verifyExhaustiveParallel(undefined, { design }, 3, { minVectors: 0 });
       expect(withoutTime(many)).toEqual(withoutTime(one));
     }
-    const early = await verifyExhaustiveParallel({ design: twoFaults }, 3, { minVectors: 0 });
+    const early = await verifyExhaustiveParallel(undefined, { design: twoFaults }, 3, { minVectors: 0 });
     expect(early).toMatchObject({ vectors: 2 * 0x05 + 2 ** 8 * 0x11 + 1, counterexample: { a: 0x05n, b: 0x11n, cin: 0n, bits: [3] } });
-    const late = await verifyExhaustiveParallel({ design: plantFault(skip7, { kind: 'carry-out-all-ones-cin' }) }, 3, { minVectors: 0 });
+    const late = await verifyExhaustiveParallel(undefined, { design: plantFault(skip7, { kind: 'carry-out-all-ones-cin' }) }, 3, { minVectors: 0 });
     expect(late).toMatchObject({ vectors: 2 ** 15, complete: true, counterexample: { a: 0x7fn, b: 0x7fn, cin: 1n, bits: [7] } });
   });
 
   it('reports progress over the whole space and stops when asked', async () => {
     const design = generateAdder({ arch: 'skip', width: 9, block: 3 });
     const seen: [number, number][] = [];
-    const r = await verifyExhaustiveParallel({ design }, 2, { minVectors: 0, hooks: { onProgress: (done, total) => seen.push([done, total]) } });
+    const r = await verifyExhaustiveParallel(undefined, { design }, 2, { minVectors: 0, hooks: { onProgress: (done, total) => seen.push([done, total]) } });
     expect(r).toMatchObject({ equivalent: true, complete: true, vectors: 2 ** 19 });
     expect(seen.length).toBeGreaterThan(0);
     for (const [done, total] of seen) {
       expect(total).toBe(2 ** 19);
       expect(done).toBeLessThanOrEqual(2 ** 19);
     }
-    const stopped = await verifyExhaustiveParallel({ design }, 2, { minVectors: 0, hooks: { shouldStop: () => true } });
+    const stopped = await verifyExhaustiveParallel(undefined, { design }, 2, { minVectors: 0, hooks: { shouldStop: () => true } });
     expect(stopped).toMatchObject({ equivalent: false, complete: false, counterexample: null });
   });
 
   it('refuses a design with lint errors', async () => {
     const broken = parseVerilog('module add(a, b, s); input [1:0] a, b; output [1:0] s; assign s[0] = a[0] ^ b[0]; endmodule');
-    await expect(verifyExhaustiveParallel({ design: broken }, 2)).rejects.toThrow(/lint/);
+    await expect(verifyExhaustiveParallel(undefined, { design: broken }, 2)).rejects.toThrow(/lint/);
   });
 });
 
