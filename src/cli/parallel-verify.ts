@@ -18,10 +18,10 @@ import { pathToFileURL } from 'node:url';
 import { Worker, parentPort, workerData } from 'node:worker_threads';
 import { EngineError } from '../engine/errors';
 import type { DelayTable, Design, PortMap } from '../engine/model';
-import { prepareAdder } from '../engine/pipeline';
+import { prepareAdder, vectorSpaceBits } from '../engine/pipeline';
 import { verifyExhaustive, type Backend } from '../engine/verify/bitsliced';
 import type { VerifyHooks, VerifyResult } from '../engine/verify/result';
-import { spaceBits, type Shard } from '../engine/verify/vectors';
+import type { Shard } from '../engine/verify/vectors';
 
 /** Below this many vectors (a few tenths of a second on one core) starting threads costs more than it saves. */
 export const PARALLEL_MIN_VECTORS = 2 ** 30;
@@ -161,7 +161,7 @@ export async function verifyExhaustiveParallel(
   const t0 = performance.now();
   const prepared = prepareAdder(request.design, { map: request.map, delayTable: request.delayTable });
   if (!prepared.adder) throw new EngineError('lint', 'the design has lint errors: run lint first');
-  const total = 2 ** spaceBits(prepared.adder.ports);
+  const total = 2 ** vectorSpaceBits(prepared.adder.ports);
   const parts = total < (opts.minVectors ?? PARALLEL_MIN_VECTORS) ? 1 : Math.max(1, Math.floor(threads));
   const control = new SharedArrayBuffer(8);
   new Int32Array(control)[FIRST_FOUND] = parts;

@@ -14,13 +14,13 @@
  * event-driven simulator), which makes the counterexample that is reported.
  */
 import { EngineError } from '../errors';
-import type { PreparedAdder } from '../pipeline';
+import { vectorSpaceBits, type PreparedAdder } from '../pipeline';
 import { SeededRandom } from '../random';
 import { buildAdderProgram, INNER_BITS, NO_HOIST, WORD_SPLIT, type AdderProgram, type CheckKernel, type ScanKernel } from './bitsliced-program';
 import { jsCheckKernel, jsScanKernel } from './bitsliced-js';
 import { wasmCheckKernel, wasmScanKernel } from './bitsliced-wasm';
 import { replayCounterexample, type Counterexample, type VerifyHooks, type VerifyResult } from './result';
-import { LanePacker, MAX_SPACE_BITS, nextRandomVectors, shardRange, spaceBits, vectorAt, type Shard } from './vectors';
+import { LanePacker, MAX_SPACE_BITS, nextRandomVectors, shardRange, vectorAt, type Shard } from './vectors';
 
 /** Which code runs: WebAssembly SIMD, JavaScript, or the first of the two that works here. */
 export type Backend = 'auto' | 'wasm' | 'js';
@@ -134,7 +134,7 @@ function result(mode: 'exhaustive' | 'random', vectors: number, seed: bigint | n
  */
 export function verifyExhaustive(adder: PreparedAdder, opts: ExhaustiveOptions = {}, hooks: VerifyHooks = {}): VerifyResult {
   const t0 = performance.now();
-  const bits = spaceBits(adder.ports);
+  const bits = vectorSpaceBits(adder.ports);
   if (bits > MAX_SPACE_BITS) {
     throw new EngineError(
       'space-too-large',

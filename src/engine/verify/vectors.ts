@@ -17,11 +17,6 @@ import { randomVector, type SeededRandom, type Vector } from '../random';
 /** Exhaustive spaces are enumerated with exact double-precision indices. */
 export const MAX_SPACE_BITS = 53;
 
-/** Bits of the vector index: 2n, plus one for a carry-in (SPEC §1). */
-export function spaceBits(ports: AdderPorts): number {
-  return 2 * ports.width + (ports.cin === null ? 0 : 1);
-}
-
 /** The vector of an index (see the order above). */
 export function vectorAt(ports: AdderPorts, index: number): Vector {
   let rest = BigInt(index);
