@@ -6,7 +6,7 @@ import { parseArgs } from 'node:util';
 
 export class UsageError extends Error {}
 
-export const COMMANDS = ['lint', 'timing', 'sim', 'generate', 'export'] as const;
+export const COMMANDS = ['lint', 'verify', 'timing', 'sim', 'sweep', 'generate', 'export'] as const;
 export type Command = (typeof COMMANDS)[number];
 
 export interface CliArgs {
@@ -27,14 +27,19 @@ export interface CliArgs {
   blocks?: number[];
   out?: string;
   top?: string;
-  /** sim: how many threads share the vectors (default: the cores, at most 4). */
+  /** sim, verify: how many threads share the work (default: the cores, at most 4). */
   threads?: number;
+  /** verify: the mode asked for (absent: exhaustive when it is quick, else a proof). */
+  verify?: { mode: 'exhaustive' } | { mode: 'random'; count: number } | { mode: 'proof'; method: 'auto' | 'bdd' | 'sat' };
 }
 
 export const USAGE = `usage: skiplane COMMAND FILE [options]
   lint FILE                                  check a netlist for structural errors
+  verify FILE [--exhaustive | --random N | --prove [--method bdd|sat]] [--seed S] [--threads N]
+                                             check the sum against A + B + cin
   timing FILE [--pairs exhaustive | --pairs random N] [--seed S]
   sim FILE --vectors VFILE [--vcd OUT] [--threads N]  time a sequence of vectors
+  sweep --width N [--pairs random N] [--seed S]  carry-skip block sizes: simulated worst case and estimate
   generate ripple|skip --width N [--block M | --blocks 4,4,4,4] [--out OUT]
   export FILE --out OUT                      convert between .v and .json
 common options: --json, --map a=x,b=y,cin=c0,sum=z,cout=c16, --transport, --delays FILE, --top NAME`;
@@ -68,6 +73,10 @@ export function parseCli(argv: string[]): CliArgs {
         out: { type: 'string' },
         top: { type: 'string' },
         threads: { type: 'string' },
+        exhaustive: { type: 'boolean', default: false },
+        random: { type: 'string' },
+        prove: { type: 'boolean', default: false },
+        method: { type: 'string' },
         help: { type: 'boolean', short: 'h', default: false },
       },
     });
@@ -86,7 +95,7 @@ export function parseCli(argv: string[]): CliArgs {
   const args: CliArgs = { command: command as Command, json: !!v.json, transport: !!v.transport };
   const extra = [...rest];
   if (command === 'generate') args.arch = extra.shift();
-  else args.file = extra.shift();
+  else if (command !== 'sweep') args.file = extra.shift();
 
   if (v.pairs !== undefined) {
     if (v.pairs === 'exhaustive') args.pairs = { mode: 'exhaustive' };
@@ -109,6 +118,7 @@ export function parseCli(argv: string[]): CliArgs {
     args.blocks = v.blocks.split(',').map((s) => wholeNumber('--blocks', s.trim(), 1));
   }
   if (v.block !== undefined && v.blocks !== undefined) throw new UsageError('give --block M or --blocks list, not both');
+  args.verify = verifyMode(command, v);
   Object.assign(args, {
     map: v.map,
     vectors: v.vectors,
@@ -118,15 +128,34 @@ export function parseCli(argv: string[]): CliArgs {
     top: v.top,
   });
 
-  const needsFile = command !== 'generate';
+  const needsFile = command !== 'generate' && command !== 'sweep';
   if (needsFile && !args.file) throw new UsageError(`${command} needs a netlist FILE (.v or .json): skiplane ${command} adder.v`);
   if (command === 'generate' && args.arch !== 'ripple' && args.arch !== 'skip') {
     throw new UsageError(`generate takes 'ripple' or 'skip', not '${args.arch ?? ''}': skiplane generate skip --width 16 --block 4`);
   }
-  if (command === 'generate' && args.width === undefined) {
+  if ((command === 'generate' || command === 'sweep') && args.width === undefined) {
     throw new UsageError(`${command} needs --width N`);
   }
   if (command === 'sim' && !args.vectors) throw new UsageError('sim needs --vectors VFILE (one "A B CIN" a line)');
   if (command === 'export' && !args.out) throw new UsageError('export needs --out OUT.v or --out OUT.json');
   return args;
+}
+
+/** `verify`'s mode flags: at most one of --exhaustive, --random N, --prove; --method only with --prove. */
+function verifyMode(
+  command: string,
+  v: { exhaustive?: boolean; random?: string; prove?: boolean; method?: string },
+): CliArgs['verify'] {
+  const given = [v.exhaustive && '--exhaustive', v.random !== undefined && '--random', v.prove && '--prove'].filter(Boolean);
+  if (given.length > 0 && command !== 'verify') throw new UsageError(`${given[0]} belongs to verify: skiplane verify adder.v ${given[0]}`);
+  if (v.method !== undefined && !v.prove) throw new UsageError('--method goes with --prove: skiplane verify adder.v --prove --method sat');
+  if (given.length > 1) throw new UsageError(`give one of --exhaustive, --random N or --prove, not ${given.join(' and ')}`);
+  if (v.exhaustive) return { mode: 'exhaustive' };
+  if (v.random !== undefined) return { mode: 'random', count: wholeNumber('--random', v.random, 1) };
+  if (v.prove) {
+    const method = v.method ?? 'auto';
+    if (method !== 'auto' && method !== 'bdd' && method !== 'sat') throw new UsageError(`--method takes bdd or sat, not '${method}'`);
+    return { mode: 'proof', method };
+  }
+  return undefined;
 }

@@ -3,6 +3,8 @@ import type { AdderStep } from '../engine/adder';
 import type { PathEntry } from '../engine/flat';
 import type { LintResult } from '../engine/lint';
 import type { PairSearch, TimingReport } from '../engine/slowest';
+import type { SweepReport } from '../engine/sweep';
+import type { VerifyResult } from '../engine/verify/result';
 
 export const hex = (v: bigint): string => '0x' + v.toString(16);
 
@@ -64,10 +66,10 @@ export function formatSim(steps: AdderStep[], width: number): string {
 
 export function formatTiming(r: TimingReport, search: PairSearch): string {
   const lines = [`topological delay: ${r.topological.delay} ps (${r.mode} delays)`, formatPath(r.topological.path)];
-  const how = search.mode === 'exhaustive' ? 'exhaustive pairs' : `random pairs, seed ${search.seed}`;
+  const how = search.mode === 'exhaustive' ? 'exhaustive pairs' : `guided pairs (directed ${r.phases.directed}, random ${r.phases.random}, local search ${r.phases.local}; seed ${search.seed})`;
   if (r.worst) {
     lines.push(
-      `slowest vector pair found: ${r.worst.delay} ps over ${r.pairs} ${how}`,
+      `slowest vector pair found: ${r.worst.delay} ps over ${r.pairs} ${how}${r.foundBy && search.mode !== 'exhaustive' ? `, first reached by the ${r.foundBy === 'local' ? 'local search' : `${r.foundBy} pairs`}` : ''}`,
       `  from A=${hex(r.worst.from.a)} B=${hex(r.worst.from.b)} cin=${r.worst.from.cin}`,
       `  to   A=${hex(r.worst.to.a)} B=${hex(r.worst.to.b)} cin=${r.worst.to.cin}`,
       'sensitized path:',
@@ -78,9 +80,99 @@ export function formatTiming(r: TimingReport, search: PairSearch): string {
   else if (r.falsePath === false) lines.push('the topological critical path is sensitized by the pair above');
   else if (r.worst) {
     lines.push(
-      `the ${r.topological.delay} ps topological path was not sensitized by any of the ${r.pairs} vector pairs tried (slowest ${r.worst.delay} ps); random pairs cannot show whether it is a false path`,
+      `the ${r.topological.delay} ps topological path was not sensitized by any of the ${r.pairs} vector pairs tried (slowest ${r.worst.delay} ps); a search short of every pair cannot show whether it is a false path (try --pairs exhaustive on a narrow adder)`,
     );
   }
   lines.push('Simulated delays are estimates; sign-off follows your team\'s own flow.');
   return lines.join('\n');
+}
+
+/** `verify --json` (SPEC §7); a proof also names its method. */
+export function verifyJson(r: VerifyResult) {
+  const cx = r.counterexample;
+  return {
+    equivalent: r.equivalent,
+    mode: r.mode,
+    vectors: r.vectors,
+    seed: r.seed === null ? null : r.seed.toString(),
+    counterexample: cx && { a: hex(cx.a), b: hex(cx.b), cin: hex(cx.cin), expected: hex(cx.expected), actual: hex(cx.actual), bits: cx.bits },
+    elapsedMs: Math.round(r.elapsedMs),
+    ...(r.method ? { method: r.method } : {}),
+  };
+}
+
+const METHOD_WORDS = { bdd: 'a binary decision diagram', sat: 'a SAT solver' } as const;
+
+export function formatVerify(r: VerifyResult, width: number): string {
+  const count = r.vectors.toLocaleString('en-US');
+  const ms = `${Math.round(r.elapsedMs)} ms`;
+  const cx = r.counterexample;
+  if (!cx) {
+    if (r.mode === 'random') return `no mismatch in ${count} random vectors, seed ${r.seed} (${ms}); random vectors cannot prove equivalence: use --prove`;
+    const how = r.mode === 'proof' ? `proved by ${METHOD_WORDS[r.method ?? 'bdd']}` : `all ${count} vectors tried`;
+    return `equivalent: the sum equals A + B + cin for every A, B and carry-in (${how}, ${ms})`;
+  }
+  const how =
+    r.mode === 'proof'
+      ? `found by ${METHOD_WORDS[r.method ?? 'bdd']}`
+      : r.mode === 'exhaustive'
+        ? `vector ${count} in order`
+        : `random vector ${count}, seed ${r.seed}`;
+  const bitWord = (i: number) => (i === width ? `${i} (carry-out)` : String(i));
+  return [
+    `NOT equivalent: the sum differs from A + B + cin (${how}, ${ms})`,
+    `  A        ${hex(cx.a)}`,
+    `  B        ${hex(cx.b)}`,
+    `  cin      ${cx.cin}`,
+    `  expected ${hex(cx.expected)}`,
+    `  actual   ${hex(cx.actual)}`,
+    `  differing sum bits: ${cx.bits.map(bitWord).join(', ')}`,
+    'The vector above was replayed in the simulator; try it with `sim --vectors`.',
+  ].join('\n');
+}
+
+const vectorJson = (v: { a: bigint; b: bigint; cin: bigint }) => ({ a: hex(v.a), b: hex(v.b), cin: hex(v.cin) });
+
+/** `sweep --json`: one entry per block choice, the best by simulation and by the model, and the closed-form optimum. */
+export function sweepJson(r: SweepReport) {
+  return {
+    width: r.width,
+    pairs: r.pairs,
+    seed: r.seed.toString(),
+    delays: r.delays,
+    choices: r.entries.map((e) => ({
+      label: e.label,
+      kind: e.kind,
+      blocks: e.blocks,
+      topological: e.topological,
+      worst: e.worst,
+      from: vectorJson(e.from),
+      to: vectorJson(e.to),
+      foundBy: e.foundBy,
+      belowTopological: e.belowTopological,
+      model: e.model,
+    })),
+    bestBySimulation: r.bestBySimulation,
+    bestByModel: r.bestByModel,
+    optimum: r.optimum,
+  };
+}
+
+export function formatSweep(r: SweepReport): string {
+  const labelWidth = Math.max(6, ...r.entries.map((e) => e.label.length));
+  const rows = r.entries.map((e) => {
+    const blocks = e.kind === 'uniform' ? '' : `  ${e.blocks.join(',')}`;
+    const flag = r.bestBySimulation?.label === e.label ? '  ← fastest found' : '';
+    return `${e.label.padEnd(labelWidth)} ${String(e.topological).padStart(11)} ${String(e.worst).padStart(12)} ${String(e.model).padStart(9)}${blocks}${flag}`;
+  });
+  const best = (c: SweepReport['bestBySimulation']) => (c ? `${c.label} (${c.blocks.join(',')}): ${c.delay} ps` : 'none');
+  return [
+    `carry-skip block sizes for ${r.width} bits (${r.pairs} guided vector pairs each, seed ${r.seed}; delays in ps)`,
+    `${'choice'.padEnd(labelWidth)} ${'topological'.padStart(11)} ${'worst found'.padStart(12)} ${'estimate'.padStart(9)}`,
+    ...rows,
+    `fastest found by simulation: ${best(r.bestBySimulation)}`,
+    `best by the textbook estimate: ${best(r.bestByModel)}`,
+    `closed-form optimum block size sqrt(N·t_bypass / (2·t_carry)) = ${r.optimum.closedForm.toFixed(2)} (nearest ${r.optimum.rounded}; best uniform by the estimate ${r.optimum.modelUniform})`,
+    'The estimate is the textbook carry-bypass model (Rabaey, Chandrakasan, Nikolić, Digital Integrated Circuits, 2nd ed., §11.3); simulated delays are estimates too; sign-off follows your team\'s own flow.',
+  ].join('\n');
 }

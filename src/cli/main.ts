@@ -13,16 +13,21 @@ import { generateAdder } from '../engine/generate';
 import { parseDesign, writeDesignJson } from '../engine/json';
 import type { LintResult } from '../engine/lint';
 import type { DelayTable, Design, PortMap } from '../engine/model';
-import { prepareAdder, type PreparedAdder } from '../engine/pipeline';
+import { prepareAdder, vectorSpaceBits, type PreparedAdder } from '../engine/pipeline';
+import { verifyRandom } from '../engine/verify/bitsliced';
+import { proveAdder } from '../engine/verify/prove';
+import { QUICK_EXHAUSTIVE_BITS } from '../engine/verify/result';
+import { isVerifyShard, serveVerifyShard, verifyExhaustiveParallel } from './parallel-verify';
 import { parsePortMap } from '../engine/ports';
 import { searchSlowest, type TimingReport } from '../engine/slowest';
+import { sweepBlockSizes } from '../engine/sweep';
 import { parseVectors } from '../engine/vectors';
 import { writeVerilog } from '../engine/verilog/write';
 import { simulateAdderVcd } from '../engine/vcd';
-import { isMainThread } from 'node:worker_threads';
+import { isMainThread, workerData } from 'node:worker_threads';
 import { serveShard, simulateVectorFile } from './parallel-sim';
 import { parseCli, UsageError, USAGE, type CliArgs } from './args';
-import { formatLint, formatSim, formatTiming, hex, JsonChunks, pathJson, simJsonChunks, stepJson } from './format';
+import { formatLint, formatSim, formatSweep, formatTiming, formatVerify, hex, JsonChunks, pathJson, simJsonChunks, stepJson, sweepJson, verifyJson } from './format';
 
 /** A failed check of the design (exit 1), with what to print. */
 class DesignFailure {
@@ -105,6 +110,25 @@ async function runSim(args: CliArgs): Promise<Output> {
   return { json: () => null, text: () => formatSim(run.steps, width) };
 }
 
+/**
+ * `verify` (SPEC §5): exhaustive when every vector can be tried quickly,
+ * otherwise a proof, unless a mode is asked for. A mismatch fails the
+ * design (exit 1) with its counterexample.
+ */
+async function runVerify(args: CliArgs): Promise<Output> {
+  const { adder } = prepare(args);
+  const asked = args.verify ?? (vectorSpaceBits(adder.ports) <= QUICK_EXHAUSTIVE_BITS ? { mode: 'exhaustive' as const } : { mode: 'proof' as const, method: 'auto' as const });
+  const result =
+    asked.mode === 'exhaustive'
+      ? await verifyExhaustiveParallel(import.meta.url, { design: adder.design, ...options(args) }, args.threads)
+      : asked.mode === 'random'
+        ? verifyRandom(adder, { count: asked.count, seed: args.seed ?? 1n })
+        : proveAdder(adder, { method: asked.method });
+  const width = adder.ports.width;
+  if (!result.equivalent) throw new DesignFailure(verifyJson(result), formatVerify(result, width));
+  return { json: () => verifyJson(result), text: () => formatVerify(result, width) };
+}
+
 function runTiming(args: CliArgs): Output {
   const { adder } = prepare(args);
   const search = args.pairs?.mode === 'exhaustive' ? { mode: 'exhaustive' as const } : { mode: 'random' as const, count: args.pairs?.count ?? 10000, seed: args.seed ?? 1n };
@@ -131,6 +155,14 @@ function runTiming(args: CliArgs): Output {
     }),
     text: () => formatTiming(report, search),
   };
+}
+
+/** `sweep` (SPEC §7): every carry-skip block choice for a width, simulated and estimated. */
+function runSweep(args: CliArgs): Output {
+  const { delayTable } = options(args);
+  if (args.pairs?.mode === 'exhaustive') throw new UsageError('sweep times each block choice with a guided search: use --pairs random N');
+  const report = sweepBlockSizes({ width: args.width!, delayTable, pairs: args.pairs?.count, seed: args.seed });
+  return { json: () => sweepJson(report), text: () => formatSweep(report) };
 }
 
 /** Writes a design in the format its file name asks for. */
@@ -161,8 +193,10 @@ function runGenerate(args: CliArgs): Output {
 
 const COMMAND_RUNNERS: Record<CliArgs['command'], (args: CliArgs) => Output | Promise<Output>> = {
   lint: runLint,
+  verify: runVerify,
   sim: runSim,
   timing: runTiming,
+  sweep: runSweep,
   export: runExport,
   generate: runGenerate,
 };
@@ -206,6 +240,7 @@ export async function main(argv: string[]): Promise<number> {
   }
 }
 
-// The same file serves as the entry of `sim`'s shard threads.
+// The same file serves as the entry of `sim`'s and `verify`'s shard threads.
 if (isMainThread) process.exitCode = await main(process.argv.slice(2));
+else if (isVerifyShard(workerData)) serveVerifyShard();
 else serveShard();

@@ -9,6 +9,9 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { referenceSum } from '../../src/engine/adder';
+import { plantFault, type Fault } from '../../src/engine/faults';
+import { generateAdder } from '../../src/engine/generate';
+import { writeVerilog } from '../../src/engine/verilog/write';
 
 const root = join(import.meta.dirname, '..', '..');
 const dir = mkdtempSync(join(tmpdir(), 'skiplane-cli-'));
@@ -250,5 +253,100 @@ describe('stepJson', () => {
         expect(stepJson({ a, b, cin, sum, settle, lastEvent, outputChanges })).toBe(expected);
       }),
     );
+  });
+});
+
+/** A netlist with a planted fault, written to the test folder. */
+function writeFaulty(name: string, fault: Fault, width = 6): void {
+  const design = plantFault(generateAdder({ arch: 'skip', width, block: 3 }), fault);
+  writeFileSync(join(dir, name), writeVerilog(design));
+}
+
+describe('skiplane verify', () => {
+  it('tries every vector of a narrow adder by default and prints the SPEC §7 document', () => {
+    const r = skiplane('verify', 'skip8.v', '--json');
+    expect(r.code).toBe(0);
+    const doc = JSON.parse(r.stdout);
+    expect(Object.keys(doc).sort()).toEqual(['counterexample', 'elapsedMs', 'equivalent', 'mode', 'seed', 'vectors']);
+    // 2^(2·8+1) vectors: SPEC §5.
+    expect(doc).toMatchObject({ equivalent: true, mode: 'exhaustive', vectors: 2 ** 17, seed: null, counterexample: null });
+    expect(Number.isInteger(doc.elapsedMs)).toBe(true);
+  });
+
+  it('fails a faulty adder with exit 1 and a counterexample that BigInt confirms, in every mode', () => {
+    const fault: Fault = { kind: 'sum-bit-for-one-pair', bit: 2, a: 0x2dn, b: 0x13n };
+    writeFaulty('pair-fault.v', fault);
+    for (const mode of [['--exhaustive'], ['--prove'], ['--prove', '--method', 'sat'], ['--random', '200000', '--seed', '9']]) {
+      const r = skiplane('verify', 'pair-fault.v', '--json', ...mode);
+      expect(r.code, mode.join(' ')).toBe(1);
+      const doc = JSON.parse(r.stdout);
+      expect(doc.equivalent).toBe(false);
+      const cx = doc.counterexample;
+      // The fault flips sum bit 2 for A = 0x2d, B = 0x13 whatever the carry-in (faults.ts).
+      expect([cx.a, cx.b, cx.bits]).toEqual(['0x2d', '0x13', [2]]);
+      const expected = referenceSum(BigInt(cx.a), BigInt(cx.b), BigInt(cx.cin), 6, true);
+      expect(BigInt(cx.expected)).toBe(expected);
+      expect(BigInt(cx.actual)).toBe(expected ^ 4n);
+    }
+    // Vector order for exhaustive: carry-in fastest, then A, then B (the first mismatch is cin = 0).
+    const ex = JSON.parse(skiplane('verify', 'pair-fault.v', '--json', '--exhaustive').stdout);
+    expect(ex.counterexample.cin).toBe('0x0');
+    expect(ex.vectors).toBe(((0x13 << 6) | 0x2d) * 2 + 1);
+    const text = skiplane('verify', 'pair-fault.v', '--prove');
+    expect(text.stdout).toMatch(/NOT equivalent/);
+    expect(text.stdout).toMatch(/differing sum bits: 2/);
+  });
+
+  it('names the carry-out as bit n when only it is wrong', () => {
+    writeFaulty('cout-fault.v', { kind: 'carry-out-all-ones-cin' });
+    const r = skiplane('verify', 'cout-fault.v', '--json');
+    expect(r.code).toBe(1);
+    expect(JSON.parse(r.stdout).counterexample).toEqual({ a: '0x3f', b: '0x3f', cin: '0x1', expected: '0x7f', actual: '0x3f', bits: [6] });
+    expect(skiplane('verify', 'cout-fault.v').stdout).toMatch(/differing sum bits: 6 \(carry-out\)/);
+  });
+
+  it('proves a wide adder by default and records the seed of a random run', () => {
+    expect(skiplane('generate', 'skip', '--width', '48', '--block', '5', '--out', 'skip48.v').code).toBe(0);
+    const proof = JSON.parse(skiplane('verify', 'skip48.v', '--json').stdout);
+    expect(proof).toMatchObject({ equivalent: true, mode: 'proof', vectors: 0, seed: null, method: 'bdd' });
+    const random = JSON.parse(skiplane('verify', 'skip48.v', '--json', '--random', '5000', '--seed', '42').stdout);
+    expect(random).toMatchObject({ equivalent: true, mode: 'random', vectors: 5000, seed: '42' });
+  });
+
+  it('refuses contradictory or impossible requests with one line and exit 2', () => {
+    expectUsageError(skiplane('verify', 'skip8.v', '--exhaustive', '--prove'), /give one of --exhaustive, --random N or --prove/);
+    expectUsageError(skiplane('verify', 'skip8.v', '--random', '0'), /--random takes a whole number of at least 1/);
+    expectUsageError(skiplane('verify', 'skip8.v', '--method', 'sat'), /--method goes with --prove/);
+    expectUsageError(skiplane('verify', 'skip8.v', '--prove', '--method', 'magic'), /--method takes bdd or sat/);
+    expectUsageError(skiplane('timing', 'skip8.v', '--prove'), /--prove belongs to verify/);
+    expectUsageError(skiplane('verify', 'skip48.v', '--exhaustive'), /2\^97 vectors/);
+  });
+});
+
+describe('skiplane sweep', () => {
+  it('times every uniform block size and some variable ones, with the estimate beside each', () => {
+    const r = skiplane('sweep', '--width', '8', '--json', '--pairs', 'random', '500', '--seed', '3');
+    expect(r.code).toBe(0);
+    const doc = JSON.parse(r.stdout);
+    expect(doc).toMatchObject({ width: 8, pairs: 500, seed: '3' });
+    const uniform = doc.choices.filter((c: { kind: string }) => c.kind === 'uniform');
+    expect(uniform.map((c: { blocks: number[] }) => c.blocks[0])).toEqual([1, 2, 3, 4, 5, 6, 7, 8]);
+    expect(doc.choices.some((c: { kind: string }) => c.kind === 'variable')).toBe(true);
+    for (const c of doc.choices) {
+      expect(c.blocks.reduce((s: number, m: number) => s + m, 0)).toBe(8);
+      // SPEC §4: no settle time exceeds the topological delay.
+      expect(c.worst).toBeLessThanOrEqual(c.topological);
+      expect(Number.isInteger(c.model)).toBe(true);
+    }
+    const fastest = Math.min(...doc.choices.map((c: { worst: number }) => c.worst));
+    expect(doc.bestBySimulation.delay).toBe(fastest);
+    // Closed form sqrt(N·t_bypass / (2·t_carry)) with the SPEC §1 defaults (mux2 3, fa co 3): sqrt(8·3/6) = 2.
+    expect(doc.optimum.closedForm).toBeCloseTo(2, 10);
+    expect(skiplane('sweep', '--width', '8').stdout).toMatch(/fastest found by simulation/);
+  });
+
+  it('needs a width and refuses exhaustive pairs', () => {
+    expectUsageError(skiplane('sweep'), /sweep needs --width N/);
+    expectUsageError(skiplane('sweep', '--width', '8', '--pairs', 'exhaustive'), /guided search: use --pairs random N/);
   });
 });

@@ -9,6 +9,14 @@ import { AdderHarness } from '../adder';
 import type { PreparedAdder } from '../pipeline';
 import type { Vector } from '../random';
 
+/**
+ * Up to 2^33 vectors (a 16-bit adder with carry-in) the bit-parallel check
+ * tries every vector in one to two seconds on two cores (`npm run bench`),
+ * so `verify` does that by default; wider adders get a proof, which covers
+ * every vector too.
+ */
+export const QUICK_EXHAUSTIVE_BITS = 33;
+
 export type VerifyMode = 'exhaustive' | 'random' | 'proof';
 
 export interface Counterexample {
