@@ -21,10 +21,11 @@ import type { DelayTable, Design, PortMap } from '../engine/model';
 import { prepareAdder, vectorSpaceBits } from '../engine/pipeline';
 import { verifyExhaustive, type Backend } from '../engine/verify/bitsliced';
 import type { VerifyHooks, VerifyResult } from '../engine/verify/result';
+import { mergeShardResults, shardCount } from '../engine/verify/shards';
 import type { Shard } from '../engine/verify/vectors';
 
-/** Below this many vectors (a few tenths of a second on one core) starting threads costs more than it saves. */
-export const PARALLEL_MIN_VECTORS = 2 ** 30;
+// The merge rule lives in the engine, shared with browser workers; callers here still find it.
+export { mergeShardResults, PARALLEL_MIN_VECTORS } from '../engine/verify/shards';
 
 export interface VerifyRequest {
   design: Design;
@@ -130,18 +131,6 @@ function runShardInThread(entry: string | undefined, job: ShardJob): Promise<Sha
   });
 }
 
-/** What one thread would have reported, from the shards' results in shard order. */
-export function mergeShardResults(results: VerifyResult[], elapsedMs: number): VerifyResult {
-  let vectors = 0;
-  let complete = true;
-  for (const r of results) {
-    vectors += r.vectors;
-    complete &&= r.complete;
-    if (r.counterexample) return { ...r, vectors, complete, elapsedMs };
-  }
-  return { equivalent: complete, mode: 'exhaustive', vectors, seed: null, counterexample: null, complete, elapsedMs };
-}
-
 /**
  * Exhaustive verification of a design (which must have passed lint) on up
  * to `threads` threads, this one included. Progress is reported as vectors
@@ -162,7 +151,7 @@ export async function verifyExhaustiveParallel(
   const prepared = prepareAdder(request.design, { map: request.map, delayTable: request.delayTable });
   if (!prepared.adder) throw new EngineError('lint', 'the design has lint errors: run lint first');
   const total = 2 ** vectorSpaceBits(prepared.adder.ports);
-  const parts = total < (opts.minVectors ?? PARALLEL_MIN_VECTORS) ? 1 : Math.max(1, Math.floor(threads));
+  const parts = shardCount(total, threads, opts.minVectors);
   const control = new SharedArrayBuffer(8);
   new Int32Array(control)[FIRST_FOUND] = parts;
   const progress = new SharedArrayBuffer(8 * parts);
