@@ -16,17 +16,9 @@ import { SeededRandom, randomVector, type Vector } from '../../src/engine/random
 import type { DelayMode } from '../../src/engine/simulate';
 import { topologicalDelay } from '../../src/engine/topo';
 import { vcdPeriod } from '../../src/engine/vcd';
-import { writeVerilog } from '../../src/engine/verilog/write';
+import { generatedAdderOracle, SKEWED } from './support/generated-oracle';
 import { hasIverilog, traceWithIverilog, type OracleDesign } from './support/iverilog';
 
-/** Demo delays with unequal rise and fall (invented for the test, not from a library). */
-const SKEWED: DelayTable = {
-  fa: { s: { rise: 6, fall: 4 }, co: { rise: 3, fall: 2 } },
-  xor: { y: { rise: 4, fall: 3 } },
-  and: { y: { rise: 2, fall: 3 } },
-  mux2: { y: { rise: 3, fall: 2 } },
-  buf: { y: { rise: 1, fall: 2 } },
-};
 
 /** Equal rise and fall, so transport mode accepts it (SPEC §3). */
 const SYMMETRIC: DelayTable = {
@@ -115,27 +107,9 @@ function compareWithIverilog(cases: Case[], mode: DelayMode, vectorCount: number
     expect(result.lint.errors, c.label).toEqual([]);
     return { c, design, adder: result.adder! };
   });
-  const oracleDesigns: OracleDesign[] = prepared.map(({ c, design, adder }, k) => {
-    const written = writeVerilog(design);
-    // Each case gets its own module names so that one iverilog run holds them all.
-    const renamed = written.replace(/\b(skip_block\d+|ripple\d+|skip\d+_\w+)\b/g, `$1_k${k}`);
-    const vectors = vectorsFor(c.gen.width, vectorCount, 100 + k);
-    return {
-      source: mode === 'transport' ? toTransportDelays(renamed) : renamed,
-      top: `${design.top}_k${k}`,
-      inputs: [
-        { name: 'a', width: c.gen.width },
-        { name: 'b', width: c.gen.width },
-        { name: 'cin', width: 1 },
-      ],
-      outputs: [
-        { name: 's', width: c.gen.width },
-        { name: 'cout', width: 1 },
-      ],
-      vectors: vectors.map((v) => [v.a, v.b, v.cin]),
-      period: period(adder),
-    };
-  });
+  const oracleDesigns: OracleDesign[] = prepared.map(({ c, design, adder }, k) =>
+    generatedAdderOracle(design, k, c.gen.width, vectorsFor(c.gen.width, vectorCount, 100 + k), period(adder), mode === 'transport' ? toTransportDelays : undefined),
+  );
   const oracle = traceWithIverilog(oracleDesigns);
   prepared.forEach(({ c, adder }, k) => {
     const vectors = vectorsFor(c.gen.width, vectorCount, 100 + k);

@@ -15,8 +15,8 @@ import { prepareAdder, vectorSpaceBits } from '../../src/engine/pipeline';
 import type { Vector } from '../../src/engine/random';
 import { searchSlowest, type PairSearch } from '../../src/engine/slowest';
 import { vcdPeriod } from '../../src/engine/vcd';
-import { writeVerilog } from '../../src/engine/verilog/write';
-import { hasIverilog, traceWithIverilog, type OracleDesign } from './support/iverilog';
+import { generatedAdderOracle } from './support/generated-oracle';
+import { hasIverilog, traceWithIverilog } from './support/iverilog';
 
 interface Case {
   label: string;
@@ -50,23 +50,7 @@ describe.runIf(hasIverilog())('slowest pairs against Icarus Verilog', () => {
       expect(prepared.lint.errors, c.label).toEqual([]);
       const report = searchSlowest(prepared.adder!, c.search);
       const { from, to } = report.worst!;
-      // Each case gets its own module names so that one iverilog run holds them all.
-      const source = writeVerilog(design).replace(/\b(skip_block\d+|skip\d+_\w+)\b/g, `$1_k${k}`);
-      const oracle: OracleDesign = {
-        source,
-        top: `${design.top}_k${k}`,
-        inputs: [
-          { name: 'a', width: c.gen.width },
-          { name: 'b', width: c.gen.width },
-          { name: 'cin', width: 1 },
-        ],
-        outputs: [
-          { name: 's', width: c.gen.width },
-          { name: 'cout', width: 1 },
-        ],
-        vectors: [from, to].map((v) => [v.a, v.b, v.cin]),
-        period: vcdPeriod(report.topological.delay),
-      };
+      const oracle = generatedAdderOracle(design, k, c.gen.width, [from, to], vcdPeriod(report.topological.delay));
       return { c, report, oracle };
     });
     const traces = traceWithIverilog(runs.map((r) => r.oracle));
@@ -120,21 +104,7 @@ describe.runIf(hasIverilog())('every vector pair in iverilog', () => {
       const order = everyPairSequence(2 ** vectorSpaceBits(adder.ports));
       const vectors: Vector[] = order.map((i) => ({ a: BigInt(i) & mask, b: (BigInt(i) >> BigInt(n)) & mask, cin: (BigInt(i) >> BigInt(2 * n)) & 1n }));
       const report = searchSlowest(adder, { mode: 'exhaustive' });
-      const oracle: OracleDesign = {
-        source: writeVerilog(design).replace(/\b(skip_block\d+|skip\d+_\w+)\b/g, `$1_e${k}`),
-        top: `${design.top}_e${k}`,
-        inputs: [
-          { name: 'a', width: n },
-          { name: 'b', width: n },
-          { name: 'cin', width: 1 },
-        ],
-        outputs: [
-          { name: 's', width: n },
-          { name: 'cout', width: 1 },
-        ],
-        vectors: vectors.map((v) => [v.a, v.b, v.cin]),
-        period: vcdPeriod(report.topological.delay),
-      };
+      const oracle = generatedAdderOracle(design, k, n, vectors, vcdPeriod(report.topological.delay));
       return { c, adder, vectors, report, oracle };
     });
     const traces = traceWithIverilog(runs.map((r) => r.oracle));

@@ -12,18 +12,11 @@ import { AdderHarness } from '../../src/engine/adder';
 import { directedPairs } from '../../src/engine/directed';
 import { EngineError } from '../../src/engine/errors';
 import { generateAdder, type GenerateOptions } from '../../src/engine/generate';
-import type { DelayTable, PortMap } from '../../src/engine/model';
+import type { PortMap } from '../../src/engine/model';
 import { prepareAdder, type PreparedAdder } from '../../src/engine/pipeline';
 import { DIRECTED_SHARE, guidedBudget, searchSlowest } from '../../src/engine/slowest';
+import { SKEWED } from './support/generated-oracle';
 
-/** Unequal rise and fall, invented for the test (as in oracle-adders.test.ts). */
-const SKEWED: DelayTable = {
-  fa: { s: { rise: 6, fall: 4 }, co: { rise: 3, fall: 2 } },
-  xor: { y: { rise: 4, fall: 3 } },
-  and: { y: { rise: 2, fall: 3 } },
-  mux2: { y: { rise: 3, fall: 2 } },
-  buf: { y: { rise: 1, fall: 2 } },
-};
 
 function adderOf(gen: GenerateOptions, map?: PortMap): PreparedAdder {
   const prepared = prepareAdder(generateAdder(gen), { map });
