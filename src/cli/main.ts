@@ -27,6 +27,7 @@ import { simulateAdderVcd } from '../engine/vcd';
 import { isMainThread, workerData } from 'node:worker_threads';
 import { serveShard, simulateVectorFile } from './parallel-sim';
 import { parseCli, UsageError, USAGE, type CliArgs } from './args';
+import { withProgress } from './progress';
 import { formatLint, formatSim, formatSweep, formatTiming, formatVerify, hex, JsonChunks, pathJson, simJsonChunks, stepJson, sweepJson, verifyJson } from './format';
 
 /** A failed check of the design (exit 1), with what to print. */
@@ -118,23 +119,24 @@ async function runSim(args: CliArgs): Promise<Output> {
 async function runVerify(args: CliArgs): Promise<Output> {
   const { adder } = prepare(args);
   const asked = args.verify ?? (vectorSpaceBits(adder.ports) <= QUICK_EXHAUSTIVE_BITS ? { mode: 'exhaustive' as const } : { mode: 'proof' as const, method: 'auto' as const });
-  const result =
+  const result = await withProgress(`verify (${asked.mode})`, asked.mode === 'proof' ? 'cells' : 'vectors', (onProgress) =>
     asked.mode === 'exhaustive'
-      ? await verifyExhaustiveParallel(import.meta.url, { design: adder.design, ...options(args) }, args.threads)
+      ? verifyExhaustiveParallel(import.meta.url, { design: adder.design, ...options(args) }, args.threads, { hooks: { onProgress } })
       : asked.mode === 'random'
-        ? verifyRandom(adder, { count: asked.count, seed: args.seed ?? 1n })
-        : proveAdder(adder, { method: asked.method });
+        ? verifyRandom(adder, { count: asked.count, seed: args.seed ?? 1n }, { onProgress })
+        : proveAdder(adder, { method: asked.method }, { onProgress }),
+  );
   const width = adder.ports.width;
   if (!result.equivalent) throw new DesignFailure(verifyJson(result), formatVerify(result, width));
   return { json: () => verifyJson(result), text: () => formatVerify(result, width) };
 }
 
-function runTiming(args: CliArgs): Output {
+async function runTiming(args: CliArgs): Promise<Output> {
   const { adder } = prepare(args);
   const search = args.pairs?.mode === 'exhaustive' ? { mode: 'exhaustive' as const } : { mode: 'random' as const, count: args.pairs?.count ?? 10000, seed: args.seed ?? 1n };
   let report: TimingReport;
   try {
-    report = searchSlowest(adder, search, args.transport ? 'transport' : 'inertial');
+    report = await withProgress('timing', 'vector pairs', (onProgress) => searchSlowest(adder, search, args.transport ? 'transport' : 'inertial', { onProgress }));
   } catch (e) {
     // Too many pairs is a refused request (exit 2), not a failing design.
     if (e instanceof EngineError && e.code === 'too-many-pairs') throw new UsageError(e.message);
@@ -158,10 +160,13 @@ function runTiming(args: CliArgs): Output {
 }
 
 /** `sweep` (SPEC §7): every carry-skip block choice for a width, simulated and estimated. */
-function runSweep(args: CliArgs): Output {
+async function runSweep(args: CliArgs): Promise<Output> {
   const { delayTable } = options(args);
   if (args.pairs?.mode === 'exhaustive') throw new UsageError('sweep times each block choice with a guided search: use --pairs random N');
-  const report = sweepBlockSizes({ width: args.width!, delayTable, pairs: args.pairs?.count, seed: args.seed });
+  const pairs = args.pairs?.count;
+  const report = await withProgress('sweep', 'block choices', (onProgress) =>
+    sweepBlockSizes({ width: args.width!, delayTable, pairs, seed: args.seed }, { onProgress }),
+  );
   return { json: () => sweepJson(report), text: () => formatSweep(report) };
 }
 
