@@ -7,6 +7,7 @@ import { useForm } from 'react-hook-form';
 import { z } from 'zod';
 import { MAX_REVISION_BYTES, runKind, runPlace, seedText, type NetlistKind } from '../lib/rules';
 import { api } from './api';
+import { BrowserRun } from './BrowserRun';
 import { NetlistForm, type NetlistFormValues } from './NetlistForm';
 import { DataTable } from './DataTable';
 import { bits, bytes, delay, hash, rev, utc } from './format';
@@ -206,6 +207,7 @@ function RevisionDetail({
         </Panel>
         <SignOff revisionId={revisionId} number={v.number} contentHash={v.contentHash} role={role} meId={meId} netlistId={netlistId} />
       </div>
+      <BrowserRun revision={v} check={r.data.check} />
       <Panel
         title={
           <>
