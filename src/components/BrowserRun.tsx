@@ -124,7 +124,7 @@ function RunControls({ adder, state, onStart, onCancel }: { adder: CheckedAdder;
         </Field>
       )}
       {!timing && values.mode === 'random' ? (
-        <Field label="Random vectors" error={{ message: errors.vectors }}>
+        <Field label="Vectors to try" error={{ message: errors.vectors }}>
           <input className="field mono" inputMode="numeric" value={values.vectors} disabled={running} onChange={(e) => set({ vectors: e.target.value })} />
         </Field>
       ) : (
