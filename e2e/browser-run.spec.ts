@@ -42,6 +42,16 @@ test.beforeAll(async ({ playwright }, testInfo) => {
   await api.dispose();
 });
 
+/** Counts the page's workers as they start and end. */
+function watchWorkers(page: Page) {
+  const seen = { started: 0, ended: 0 };
+  page.on('worker', (w) => {
+    seen.started++;
+    w.on('close', () => seen.ended++);
+  });
+  return seen;
+}
+
 /** Opens the netlist's latest revision; returns the panel. */
 async function openPanel(page: Page, name: string): Promise<Locator> {
   await page.goto(`/netlists/${netlistIds.get(name)}`);
@@ -81,6 +91,17 @@ test('every vector of the faulty 8-bit adder: not equivalent, with the first cou
   await expect(panel.getByText(`vector ${(index + 1n).toLocaleString('en-US')} in order`)).toBeVisible();
 });
 
+test('every vector of a 16-bit adder, shared out over the workers: equivalent', async ({ page }) => {
+  const workers = watchWorkers(page);
+  const panel = await openPanel(page, 'acc-skip-16');
+  await expect(panel.getByLabel('Mode')).toHaveValue('exhaustive');
+  await panel.getByRole('button', { name: 'Start' }).click();
+  // 2^33 vectors is past the size where the space is cut into one shard per worker; their counts add up to the whole.
+  await expect(panel.getByRole('status').filter({ hasText: 'Equivalent' })).toContainText(`all ${(2 ** 33).toLocaleString('en-US')} vectors tried`, { timeout: 45_000 });
+  const cores = await page.evaluate(() => navigator.hardwareConcurrency);
+  expect(workers.started).toBe(Math.min(cores, 4));
+});
+
 test('a proof of the 32-bit carry-skip adder: equivalent', async ({ page }) => {
   const panel = await openPanel(page, 'mac-skip-32-var');
   // 2^65 vectors: trying every one is offered but disabled, with the count shown.
@@ -94,6 +115,7 @@ test('a proof of the 32-bit carry-skip adder: equivalent', async ({ page }) => {
 });
 
 test('a long random run can be cancelled, and the next run starts afresh', async ({ page }) => {
+  const workers = watchWorkers(page);
   const panel = await openPanel(page, 'mac-skip-32-var');
   await panel.getByLabel('Mode').selectOption('random');
   await panel.getByRole('textbox', { name: 'Vectors to try' }).fill('1000000000000');
@@ -105,6 +127,9 @@ test('a long random run can be cancelled, and the next run starts afresh', async
   await panel.getByRole('button', { name: 'Cancel' }).click();
   await expect(panel.getByRole('status').filter({ hasText: 'Cancelled after' })).toContainText('of 1,000,000,000,000 vectors');
   await expect(panel.getByRole('button', { name: 'Cancel' })).toBeDisabled();
+  // A real stop: the worker running the vectors is gone.
+  expect(workers.started).toBe(1);
+  await expect.poll(() => workers.ended).toBe(1);
 
   // The cancel ended the workers; the pool makes new ones for the next run.
   await panel.getByLabel('Mode').selectOption('proof');
