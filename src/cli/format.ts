@@ -10,9 +10,9 @@ export const hex = (v: bigint): string => '0x' + v.toString(16);
 
 export const pathJson = (path: PathEntry[]) => path.map((p) => ({ net: p.net, cell: p.cell, time: p.time }));
 
-/** A JSON document given as consecutive pieces of its text, so a long one is never one giant string. */
+/** A JSON document given as consecutive pieces of its text (or of its ASCII bytes), so a long one is never one giant string. */
 export class JsonChunks {
-  constructor(readonly chunks: Iterable<string>) {}
+  constructor(readonly chunks: Iterable<string | Uint8Array>) {}
 }
 
 /**
@@ -24,15 +24,110 @@ export function stepJson(s: AdderStep): string {
   return `{"a":"${hex(s.a)}","b":"${hex(s.b)}","cin":"${hex(s.cin)}","sum":"${hex(s.sum)}","settle":${s.settle},"lastEvent":${s.lastEvent},"outputChanges":${s.outputChanges}}`;
 }
 
-/** `sim --json` from the steps' JSON texts, in order. */
-export function* simJsonChunks(stepTexts: Iterable<string>): Generator<string> {
+/** `sim --json` from the steps' texts in order, each piece several steps joined by commas. */
+export function* simJsonChunks(stepTexts: Iterable<string | Uint8Array>): Generator<string | Uint8Array> {
   yield '{"steps":[';
   let first = true;
   for (const text of stepTexts) {
-    yield (first ? '' : ',') + text;
+    if (!first) yield ',';
+    yield text;
     first = false;
   }
   yield ']}';
+}
+
+/** The ASCII codes of a string. */
+const ascii = (s: string): Uint8Array => Uint8Array.from(s, (c) => c.charCodeAt(0));
+
+/** The text around a step's values in `stepJson`, before a, b, cin, sum (hex digits), settle, lastEvent, outputChanges (decimal), and after. */
+const STEP_PARTS = ['{"a":"0x', '","b":"0x', '","cin":"0x', '","sum":"0x', '","settle":', ',"lastEvent":', ',"outputChanges":', '}'].map(ascii);
+const COMMA = 44;
+/** Bits 32 and up of an integer below 2^53. */
+const high = (x: number): number => (x - (x >>> 0)) / 2 ** 32;
+/** Room for one step of numbers: a comma, every part, 14 hex digits for each of four values and up to 24 characters for each of three. */
+const STEP_ROOM = STEP_PARTS.reduce((n, p) => n + p.length, 1) + 4 * 14 + 3 * 24;
+
+/**
+ * Steps of `sim --json` written as ASCII bytes, joined by commas: the same
+ * text as `stepJson` gives (tests compare them), without a string per step.
+ * Values up to 53 bits come as numbers; wider steps go through `stepJson`.
+ */
+export class StepJsonWriter {
+  private buffer = new Uint8Array(1 << 16);
+  private length = 0;
+
+  /** The bytes written so far (a view: the writer may write on past it). */
+  get bytes(): Uint8Array {
+    return this.buffer.subarray(0, this.length);
+  }
+
+  /** A step whose operands are integers below 2^53 and whose sum is given as bits 32 and up and bits 0 to 31. */
+  numbers(a: number, b: number, cin: number, sumHigh: number, sumLow: number, settle: number, lastEvent: number, outputChanges: number): void {
+    this.room(STEP_ROOM);
+    // Locals rather than fields in this loop of hundreds of thousands of calls.
+    const out = this.buffer;
+    let at = this.length;
+    if (at > 0) out[at++] = COMMA;
+    at = putHex(out, putBytes(out, at, STEP_PARTS[0]), high(a), a >>> 0);
+    at = putHex(out, putBytes(out, at, STEP_PARTS[1]), high(b), b >>> 0);
+    at = putHex(out, putBytes(out, at, STEP_PARTS[2]), 0, cin);
+    at = putHex(out, putBytes(out, at, STEP_PARTS[3]), sumHigh, sumLow);
+    at = putDecimal(out, putBytes(out, at, STEP_PARTS[4]), settle);
+    at = putDecimal(out, putBytes(out, at, STEP_PARTS[5]), lastEvent);
+    at = putDecimal(out, putBytes(out, at, STEP_PARTS[6]), outputChanges);
+    this.length = putBytes(out, at, STEP_PARTS[7]);
+  }
+
+  /** A step of any width, through `stepJson`. */
+  step(s: AdderStep): void {
+    const text = stepJson(s);
+    this.room(text.length + 1);
+    if (this.length > 0) this.buffer[this.length++] = COMMA;
+    this.length = putText(this.buffer, this.length, text);
+  }
+
+  private room(n: number): void {
+    if (this.length + n <= this.buffer.length) return;
+    const grown = new Uint8Array(Math.max(2 * this.buffer.length, this.length + n));
+    grown.set(this.bytes);
+    this.buffer = grown;
+  }
+}
+
+// Each put… writes at out[at] and on, and returns where it stopped.
+
+function putBytes(out: Uint8Array, at: number, bytes: Uint8Array): number {
+  for (let i = 0; i < bytes.length; i++) out[at++] = bytes[i];
+  return at;
+}
+
+function putText(out: Uint8Array, at: number, ascii: string): number {
+  for (let i = 0; i < ascii.length; i++) out[at++] = ascii.charCodeAt(i);
+  return at;
+}
+
+/** high · 2^32 + low (both unsigned 32-bit) in hexadecimal as `toString(16)` writes it: no leading zeros, "0" for zero. */
+function putHex(out: Uint8Array, at: number, high: number, low: number): number {
+  return high !== 0 ? putHex32(out, putHex32(out, at, high, 1), low, 8) : putHex32(out, at, low, 1);
+}
+
+/** An unsigned 32-bit x in hexadecimal, at least `min` digits. */
+function putHex32(out: Uint8Array, at: number, x: number, min: number): number {
+  const end = at + Math.max(min, (35 - Math.clz32(x)) >> 2);
+  for (let i = end - 1; i >= at; i--, x >>>= 4) {
+    const d = x & 15;
+    out[i] = d < 10 ? 48 + d : 87 + d;
+  }
+  return end;
+}
+
+/** A whole number in decimal as `String` writes it. */
+function putDecimal(out: Uint8Array, at: number, x: number): number {
+  if (!(x >= 0 && x <= 0x7fffffff && x === (x | 0))) return putText(out, at, String(x));
+  let end = at + 1;
+  for (let p = 10; p <= x && p <= 1e9; p *= 10) end++;
+  for (let i = end - 1; i >= at; i--, x = (x / 10) | 0) out[i] = 48 + (x % 10);
+  return end;
 }
 
 export function formatLint(r: LintResult): string {

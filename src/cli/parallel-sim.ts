@@ -15,8 +15,8 @@ import { EngineError } from '../engine/errors';
 import type { DelayTable, Design, PortMap } from '../engine/model';
 import { prepareAdder } from '../engine/pipeline';
 import type { DelayMode } from '../engine/simulate';
-import { parseVectors } from '../engine/vectors';
-import { stepJson } from './format';
+import { MAX_NUMBER_BITS, parseVectorNumbers, parseVectors } from '../engine/vectors';
+import { StepJsonWriter } from './format';
 
 /** Below this many bytes of vectors (about 20,000 lines), starting threads costs more than it saves. */
 export const PARALLEL_MIN_BYTES = 512 * 1024;
@@ -29,7 +29,7 @@ export interface SimRequest {
   /** The vector file's text and name (for messages). */
   text: string;
   fileName: string;
-  /** `json`: each step's JSON text (SPEC §7); `steps`: the steps themselves. */
+  /** `json`: the steps' JSON text (SPEC §7) as ASCII bytes, a piece per thread; `steps`: the steps themselves. */
   form: 'json' | 'steps';
 }
 
@@ -41,24 +41,33 @@ interface ShardJob extends SimRequest {
 }
 
 type ShardResult =
-  | { ok: true; count: number; json: string; steps: AdderStep[] }
+  | { ok: true; count: number; json: Uint8Array; steps: AdderStep[] }
   | { ok: false; code: string; message: string };
 
 function runShard(job: ShardJob): ShardResult {
   try {
     const adder = prepareAdder(job.design, { map: job.map, delayTable: job.delayTable }).adder!;
     const ports = { width: adder.ports.width, hasCin: adder.ports.cin !== null, allowEmpty: true };
-    const vectors = parseVectors(job.text, job.fileName, { ...ports, firstLine: job.firstLine });
     const harness = new AdderHarness(adder.compiled, adder.ports, { mode: job.mode });
     if (job.previous) harness.settle(parseVectors(job.previous.text, job.fileName, { ...ports, firstLine: job.previous.line })[0]);
-    const json: string[] = [];
+    const json = new StepJsonWriter();
+    if (job.form === 'json' && ports.width <= MAX_NUMBER_BITS) {
+      // Numbers end to end: no BigInt, no object and no string per vector.
+      const v = parseVectorNumbers(job.text, job.fileName, { ...ports, firstLine: job.firstLine });
+      for (let k = 0; k < v.length; k += 3) {
+        const r = harness.applyNumbers(v[k], v[k + 1], v[k + 2]);
+        json.numbers(v[k], v[k + 1], v[k + 2], harness.readSumWord(32), harness.readSumWord(0), r.settle, r.lastEvent, r.outputChanges);
+      }
+      return { ok: true, count: v.length / 3, json: json.bytes, steps: [] };
+    }
+    const vectors = parseVectors(job.text, job.fileName, { ...ports, firstLine: job.firstLine });
     const steps: AdderStep[] = [];
     for (const v of vectors) {
       const step = harness.applyStep(v).step;
-      if (job.form === 'json') json.push(stepJson(step));
+      if (job.form === 'json') json.step(step);
       else steps.push(step);
     }
-    return { ok: true, count: vectors.length, json: json.join(','), steps };
+    return { ok: true, count: vectors.length, json: json.bytes, steps };
   } catch (e) {
     if (e instanceof EngineError) return { ok: false, code: e.code, message: e.message };
     throw e;
@@ -67,7 +76,9 @@ function runShard(job: ShardJob): ShardResult {
 
 /** Entry point of a shard thread (the command line's main module, started as a worker). */
 export function serveShard(): void {
-  parentPort!.postMessage(runShard(workerData as ShardJob));
+  const result = runShard(workerData as ShardJob);
+  // The JSON bytes move to the main thread rather than being copied.
+  parentPort!.postMessage(result, result.ok ? [result.json.buffer as ArrayBuffer] : []);
 }
 
 function runShardInThread(entry: string, job: ShardJob): Promise<ShardResult> {
@@ -124,7 +135,7 @@ export async function simulateVectorFile(
   entry: string,
   request: SimRequest,
   threads = Math.min(4, availableParallelism()),
-): Promise<{ count: number; json: string[]; steps: AdderStep[] }> {
+): Promise<{ count: number; json: Uint8Array[]; steps: AdderStep[] }> {
   const bundled = !entry.endsWith('.ts');
   const parts = request.text.length < PARALLEL_MIN_BYTES || !bundled ? 1 : Math.max(1, threads);
   const jobs: ShardJob[] = splitVectorText(request.text, parts).map((shard) => ({ ...request, ...shard }));
@@ -138,5 +149,5 @@ export async function simulateVectorFile(
   const ok = results.filter((r) => r.ok);
   const count = ok.reduce((n, r) => n + r.count, 0);
   if (count === 0) throw new EngineError('bad-vectors', `${request.fileName}: no vectors (one a line: A B CIN)`, { where: request.fileName });
-  return { count, json: ok.map((r) => r.json).filter((j) => j !== ''), steps: ok.flatMap((r) => r.steps) };
+  return { count, json: ok.map((r) => r.json).filter((j) => j.length > 0), steps: ok.flatMap((r) => r.steps) };
 }

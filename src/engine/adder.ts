@@ -1,7 +1,7 @@
 /**
  * Adder harness (SPEC §1 adder ports, §5 reference, §7 `sim` steps): puts
- * A, B and carry-in into the simulator's inputs from BigInt values and
- * reads the sum back, carry-out as bit n.
+ * A, B and carry-in into the simulator's inputs from BigInt values (or, up
+ * to 53 bits, from plain numbers) and reads the sum back, carry-out as bit n.
  */
 import type { CompiledNetlist } from './compile';
 import { EngineError } from './errors';
@@ -60,6 +60,13 @@ export class AdderHarness {
     writeBits(v.cin, this.cinPos, this.inputs);
   }
 
+  /** Write a vector given as numbers, each an integer below 2^53 (no BigInt on the way). */
+  setNumbers(a: number, b: number, cin: number): void {
+    writeNumber(a, this.aPos, this.inputs);
+    writeNumber(b, this.bPos, this.inputs);
+    writeNumber(cin, this.cinPos, this.inputs);
+  }
+
   /** Zero-delay settled state for a vector; returns its sum. */
   settle(v: Vector): bigint {
     this.setVector(v);
@@ -73,6 +80,12 @@ export class AdderHarness {
     return this.sim.apply(this.inputs);
   }
 
+  /** `apply` for a vector given as numbers (see `setNumbers`). */
+  applyNumbers(a: number, b: number, cin: number): StepResult {
+    this.setNumbers(a, b, cin);
+    return this.sim.apply(this.inputs);
+  }
+
   /** Apply a vector and report it as a `sim` step (SPEC §7), with the simulator's full result. */
   applyStep(v: Vector): { step: AdderStep; result: StepResult } {
     const result = this.apply(v);
@@ -83,6 +96,11 @@ export class AdderHarness {
   /** The present sum, carry-out as bit n. */
   readSum(): bigint {
     return readBits(this.outputNets, this.sim.values);
+  }
+
+  /** Bits [from, from + 32) of the present sum as an unsigned number (bits past the sum's width are 0). */
+  readSumWord(from: number): number {
+    return readChunk(this.outputNets, this.sim.values, from, Math.min(from + 32, this.outputNets.length));
   }
 
   /** SPEC §5 reference for this design's width and carry-out. */
@@ -104,26 +122,29 @@ const MAX_EXACT = BigInt(Number.MAX_SAFE_INTEGER);
 
 /** Write the low `positions.length` bits of `value` to `out[positions[i]]`, 32 bits at a time. */
 function writeBits(value: bigint, positions: Int32Array, out: Uint8Array): void {
-  if (value >= 0n && value <= MAX_EXACT) {
-    // The usual operand is exact as a double: no BigInt arithmetic, which allocates, per vector.
-    const x = Number(value);
-    let chunk = x >>> 0;
-    const high = (x - chunk) / 2 ** 32;
-    for (let j = 0; j < positions.length; j++) {
-      if (j === 32) chunk = high;
-      out[positions[j]] = chunk & 1;
-      chunk >>>= 1;
-    }
-    return;
-  }
+  // The usual operand is exact as a double: no BigInt arithmetic, which allocates, per vector.
+  if (value >= 0n && value <= MAX_EXACT) return writeNumber(Number(value), positions, out);
   let rest = value;
   for (let i = 0; i < positions.length; i += 32) {
-    let chunk = Number(BigInt.asUintN(32, rest));
+    writeChunk(Number(BigInt.asUintN(32, rest)), positions, i, out);
     rest >>= 32n;
-    for (let j = i, end = Math.min(i + 32, positions.length); j < end; j++) {
-      out[positions[j]] = chunk & 1;
-      chunk >>>= 1;
-    }
+  }
+}
+
+/** `writeBits` for an integer x with 0 ≤ x < 2^53 (plain number arithmetic). */
+function writeNumber(x: number, positions: Int32Array, out: Uint8Array): void {
+  for (let i = 0, rest = x; i < positions.length; i += 32) {
+    const low = rest >>> 0;
+    writeChunk(low, positions, i, out);
+    rest = (rest - low) / 2 ** 32;
+  }
+}
+
+/** Bits of a 32-bit chunk to positions [from, from + 32). */
+function writeChunk(chunk: number, positions: Int32Array, from: number, out: Uint8Array): void {
+  for (let j = from, end = Math.min(from + 32, positions.length); j < end; j++) {
+    out[positions[j]] = chunk & 1;
+    chunk >>>= 1;
   }
 }
 
@@ -131,9 +152,15 @@ function writeBits(value: bigint, positions: Int32Array, out: Uint8Array): void 
 function readBits(nets: Int32Array, values: Uint8Array): bigint {
   let result = 0n;
   for (let hi = nets.length; hi > 0; hi -= 32) {
-    let chunk = 0;
-    for (let j = hi - 1; j >= Math.max(0, hi - 32); j--) chunk = ((chunk << 1) | values[nets[j]]) >>> 0;
-    result = (result << BigInt(Math.min(32, hi))) | BigInt(chunk);
+    const lo = Math.max(0, hi - 32);
+    result = (result << BigInt(hi - lo)) | BigInt(readChunk(nets, values, lo, hi));
   }
   return result;
+}
+
+/** Nets [lo, hi) as an unsigned number, nets[lo] least significant (hi − lo ≤ 32). */
+function readChunk(nets: Int32Array, values: Uint8Array, lo: number, hi: number): number {
+  let chunk = 0;
+  for (let j = hi - 1; j >= lo; j--) chunk = ((chunk << 1) | values[nets[j]]) >>> 0;
+  return chunk;
 }

@@ -2,6 +2,12 @@
  * Vector files (SPEC §7): one vector a line, `A B CIN`, each number
  * hexadecimal with a `0x` prefix or decimal without; `#` starts a comment;
  * blank lines are skipped.
+ *
+ * One reader serves two forms: BigInt vectors (any width) and, for adders of
+ * at most 53 bits, plain numbers in one Float64Array (no object and no
+ * BigInt per vector: a file can hold millions of lines). Lines of plain
+ * ASCII are cut into words by hand; any other line, and any line in error,
+ * goes through the general reading below, which words every message.
  */
 import { EngineError } from './errors';
 import type { Vector } from './random';
@@ -17,37 +23,158 @@ export interface VectorFileOptions {
   allowEmpty?: boolean;
 }
 
+/** Widest operands read as numbers: every integer below 2^53 is exact as a double. */
+export const MAX_NUMBER_BITS = 53;
+
 const HEX = /^0[xX][0-9a-fA-F]+$/;
 const DEC = /^[0-9]+$/;
+const NAMES = ['A', 'B', 'CIN'];
 
 /** Read a vector file; `fileName` names it in messages (`vectors.txt:7: …`). */
 export function parseVectors(text: string, fileName: string, opts: VectorFileOptions): Vector[] {
-  const limit = 1n << BigInt(opts.width);
   const vectors: Vector[] = [];
-  const lines = text.split('\n');
-  const offset = opts.firstLine ?? 1;
-  for (let i = 0; i < lines.length; i++) {
-    // Plain string work per line: a vector file can hold millions of lines.
-    let code = lines[i];
-    const hash = code.indexOf('#');
-    if (hash >= 0) code = code.slice(0, hash);
-    const words = code.trim().split(/\s+/);
-    if (words.length === 1 && words[0] === '') continue;
-    if (words.length !== 3) vectorError(fileName, i + offset, `expected three numbers 'A B CIN', found ${words.length}`, lines[i]);
-    const [a, b, cin] = words.map((word, k) => {
-      if (!HEX.test(word) && !DEC.test(word)) {
-        vectorError(fileName, i + offset, `${'A B CIN'.split(' ')[k]} '${word}' is not a number (hexadecimal with 0x, or decimal)`, lines[i], word);
-      }
-      return BigInt(word);
-    });
-    if (a >= limit) vectorError(fileName, i + offset, `A = ${words[0]} is wider than the adder's ${opts.width} bits`, lines[i], words[0]);
-    if (b >= limit) vectorError(fileName, i + offset, `B = ${words[1]} is wider than the adder's ${opts.width} bits`, lines[i], words[1]);
-    if (cin > 1n) vectorError(fileName, i + offset, `CIN must be 0 or 1, found ${words[2]}`, lines[i], words[2]);
-    if (cin === 1n && opts.hasCin === false) vectorError(fileName, i + offset, 'CIN is 1 but the design has no carry-in', lines[i], words[2]);
-    vectors.push({ a, b, cin });
-  }
-  if (vectors.length === 0 && !opts.allowEmpty) throw new EngineError('bad-vectors', `${fileName}: no vectors (one a line: A B CIN)`, { where: fileName });
+  const exact = opts.width <= MAX_NUMBER_BITS;
+  // Narrow operands are already exact numbers; wider ones are read again from their text.
+  const big = (w: LineWords, k: number) => (exact ? BigInt(w.value[k]) : BigInt(w.text(k)));
+  readVectors(text, fileName, opts, (w) => vectors.push({ a: big(w, 0), b: big(w, 1), cin: big(w, 2) }));
   return vectors;
+}
+
+/**
+ * Read a vector file of an adder of at most 53 bits as numbers: A, B and CIN
+ * of vector k at 3k, 3k + 1 and 3k + 2. Same checks and messages as `parseVectors`.
+ */
+export function parseVectorNumbers(text: string, fileName: string, opts: VectorFileOptions): Float64Array {
+  if (opts.width > MAX_NUMBER_BITS) throw new RangeError(`a ${opts.width}-bit vector is not exact as numbers: use parseVectors`);
+  // About 24 characters a line in a typical file; grown by doubling when short.
+  let out = new Float64Array(3 * Math.max(16, text.length >> 4));
+  let used = 0;
+  readVectors(text, fileName, opts, (w) => {
+    if (used + 3 > out.length) {
+      const grown = new Float64Array(2 * out.length);
+      grown.set(out);
+      out = grown;
+    }
+    out[used++] = w.value[0];
+    out[used++] = w.value[1];
+    out[used++] = w.value[2];
+  });
+  return out.subarray(0, used);
+}
+
+/** The three words of the present line: where each one's text is, and its value. */
+class LineWords {
+  /** Each word's value as a double: exact below 2^53, and 2^53 or more for a word that large (see `wordValue`). */
+  readonly value = new Float64Array(3);
+  readonly source: string[] = ['', '', ''];
+  readonly start = new Int32Array(3);
+  readonly end = new Int32Array(3);
+
+  text(k: number): string {
+    return this.source[k].slice(this.start[k], this.end[k]);
+  }
+
+  private set(k: number, source: string, start: number, end: number): void {
+    this.source[k] = source;
+    this.start[k] = start;
+    this.end[k] = end;
+    this.value[k] = wordValue(source, start, end);
+  }
+
+  /**
+   * Cut text[from, to) into words by hand when it holds only ASCII: 3 when
+   * it is three numbers, 0 when blank, −1 when the general reading must
+   * decide (other characters, another count, a word that is no number).
+   */
+  readAscii(text: string, from: number, to: number): number {
+    let count = 0;
+    let start = -1;
+    for (let i = from; i <= to; i++) {
+      const c = i < to ? text.charCodeAt(i) : 35;
+      if (c > 126) return -1;
+      // Space, tab, \v, \f and \r separate words (JavaScript's \s within ASCII); '#' ends the line's code.
+      const gap = c === 32 || (c >= 9 && c <= 13) || c === 35;
+      if (gap && start >= 0) {
+        if (count === 3) return -1;
+        this.set(count++, text, start, i);
+        if (Number.isNaN(this.value[count - 1])) return -1;
+        start = -1;
+      } else if (!gap && start < 0) {
+        start = i;
+      }
+      if (c === 35) break;
+    }
+    return count === 0 || count === 3 ? count : -1;
+  }
+
+  /** The general reading of one line (any whitespace, every message); false when the line is blank. */
+  read(line: string, fileName: string, lineNo: number): boolean {
+    const hash = line.indexOf('#');
+    const words = (hash >= 0 ? line.slice(0, hash) : line).trim().split(/\s+/);
+    if (words.length === 1 && words[0] === '') return false;
+    if (words.length !== 3) vectorError(fileName, lineNo, `expected three numbers 'A B CIN', found ${words.length}`, line);
+    words.forEach((word, k) => {
+      if (!HEX.test(word) && !DEC.test(word)) vectorError(fileName, lineNo, `${NAMES[k]} '${word}' is not a number (hexadecimal with 0x, or decimal)`, line, word);
+      this.set(k, word, 0, word.length);
+    });
+    return true;
+  }
+}
+
+/** Check every vector line of `text` and hand its words to `take`, in order. */
+function readVectors(text: string, fileName: string, opts: VectorFileOptions, take: (words: LineWords) => void): void {
+  const { width } = opts;
+    const words = new LineWords();
+  // A double decides `≥ 2^width` up to 53 bits; past that, a value of 2^53 or more is read again as BigInt.
+  const tooWide = (k: number) =>
+    width <= MAX_NUMBER_BITS ? words.value[k] >= 2 ** width : words.value[k] >= 2 ** MAX_NUMBER_BITS && BigInt(words.text(k)) >> BigInt(width) !== 0n;
+  let count = 0;
+  let lineNo = opts.firstLine ?? 1;
+  // The present line is text[start, end), as `text.split('\n')` would give it, but made only for a message.
+  let start = 0;
+  let end = 0;
+  const line = () => text.slice(start, end);
+  for (; start <= text.length; start = end + 1, lineNo++) {
+    end = text.indexOf('\n', start);
+    if (end < 0) end = text.length;
+    const found = words.readAscii(text, start, end);
+    if (found === 0 || (found < 0 && !words.read(line(), fileName, lineNo))) continue;
+    for (let k = 0; k < 2; k++) {
+      if (tooWide(k)) vectorError(fileName, lineNo, `${NAMES[k]} = ${words.text(k)} is wider than the adder's ${width} bits`, line(), words.text(k));
+    }
+    const cin = words.value[2];
+    if (cin > 1) vectorError(fileName, lineNo, `CIN must be 0 or 1, found ${words.text(2)}`, line(), words.text(2));
+    if (cin === 1 && opts.hasCin === false) vectorError(fileName, lineNo, 'CIN is 1 but the design has no carry-in', line(), words.text(2));
+    take(words);
+    count++;
+  }
+  if (count === 0 && !opts.allowEmpty) throw new EngineError('bad-vectors', `${fileName}: no vectors (one a line: A B CIN)`, { where: fileName });
+}
+
+/**
+ * The value of s[start, end) read as `0x` hexadecimal or decimal, NaN if it
+ * is neither. Exact below 2^53. Past it each step rounds, but never below
+ * 2^53 once the true value reaches it (2^53 is a double and rounding to
+ * nearest keeps order), so `≥ 2^k` is decided right for every k ≤ 53.
+ */
+function wordValue(s: string, start: number, end: number): number {
+  let v = 0;
+  if (end - start > 2 && s.charCodeAt(start) === 48 && (s.charCodeAt(start + 1) | 32) === 120) {
+    for (let i = start + 2; i < end; i++) {
+      const c = s.charCodeAt(i);
+      const lower = c | 32;
+      const d = c >= 48 && c <= 57 ? c - 48 : lower >= 97 && lower <= 102 ? lower - 87 : -1;
+      if (d < 0) return NaN;
+      v = v * 16 + d;
+    }
+    return v;
+  }
+  for (let i = start; i < end; i++) {
+    const d = s.charCodeAt(i) - 48;
+    if (d < 0 || d > 9) return NaN;
+    v = v * 10 + d;
+  }
+  return end > start ? v : NaN;
 }
 
 /** `file:line: message`, with the column of the offending word when there is one. */
