@@ -57,7 +57,7 @@ async function openPanel(page: Page, name: string): Promise<Locator> {
   await page.goto(`/netlists/${netlistIds.get(name)}`);
   const panel = page.getByRole('region', { name: 'Run in this browser' });
   await expect(panel.getByRole('button', { name: 'Start' })).toBeEnabled();
-  await expect(panel.getByText('Simulated delays are estimates from the delay table; sign-off follows your team\'s own flow.')).toBeVisible();
+  await expect(panel.getByText("Simulated delays are estimates from the delay table; sign-off follows your team's own flow.")).toBeVisible();
   return panel;
 }
 
@@ -97,7 +97,9 @@ test('every vector of a 16-bit adder, shared out over the workers: equivalent', 
   await expect(panel.getByLabel('Mode')).toHaveValue('exhaustive');
   await panel.getByRole('button', { name: 'Start' }).click();
   // 2^33 vectors is past the size where the space is cut into one shard per worker; their counts add up to the whole.
-  await expect(panel.getByRole('status').filter({ hasText: 'Equivalent' })).toContainText(`all ${(2 ** 33).toLocaleString('en-US')} vectors tried`, { timeout: 45_000 });
+  await expect(panel.getByRole('status').filter({ hasText: 'Equivalent' })).toContainText(`all ${(2 ** 33).toLocaleString('en-US')} vectors tried`, {
+    timeout: 45_000,
+  });
   const cores = await page.evaluate(() => navigator.hardwareConcurrency);
   expect(workers.started).toBe(Math.min(cores, 4));
 });

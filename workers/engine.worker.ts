@@ -46,7 +46,11 @@ export type ProgressCallback = (done: number, total: number) => void;
 export const PROGRESS_EVERY_MS = 100;
 
 /** A progress callback that passes on at most one report per `everyMs`. */
-export function throttleProgress(report: ProgressCallback | undefined, everyMs = PROGRESS_EVERY_MS, now = () => performance.now()): ProgressCallback | undefined {
+export function throttleProgress(
+  report: ProgressCallback | undefined,
+  everyMs = PROGRESS_EVERY_MS,
+  now = () => performance.now(),
+): ProgressCallback | undefined {
   if (!report) return undefined;
   let last = -Infinity;
   return (done, total) => {

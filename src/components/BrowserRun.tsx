@@ -49,7 +49,10 @@ export interface BrowserRunProps {
 export function BrowserRun({ revision, check }: BrowserRunProps) {
   const adder = check.errors.length === 0 ? check.adder : null;
   const source = useMemo(
-    () => (adder && revision.content !== undefined ? { text: revision.content, fileName: sourceFileName(revision.format as RevisionFormat, revision.filename) } : null),
+    () =>
+      adder && revision.content !== undefined
+        ? { text: revision.content, fileName: sourceFileName(revision.format as RevisionFormat, revision.filename) }
+        : null,
     [adder, revision.content, revision.format, revision.filename],
   );
   const run = useBrowserRun(source);
@@ -71,12 +74,24 @@ export function BrowserRun({ revision, check }: BrowserRunProps) {
           </Notice>
         </div>
       )}
-      <p className="border-t border-line px-3 py-2 text-[12px] text-muted">Simulated delays are estimates from the delay table; sign-off follows your team's own flow.</p>
+      <p className="border-t border-line px-3 py-2 text-[12px] text-muted">
+        Simulated delays are estimates from the delay table; sign-off follows your team's own flow.
+      </p>
     </Panel>
   );
 }
 
-function RunControls({ adder, state, onStart, onCancel }: { adder: CheckedAdder; state: BrowserRunState; onStart: (r: BrowserRunRequest) => void; onCancel: () => void }) {
+function RunControls({
+  adder,
+  state,
+  onStart,
+  onCancel,
+}: {
+  adder: CheckedAdder;
+  state: BrowserRunState;
+  onStart: (r: BrowserRunRequest) => void;
+  onCancel: () => void;
+}) {
   const spaceBits = spaceBitsOf(adder);
   const everyVectorFits = spaceBits <= QUICK_EXHAUSTIVE_BITS;
   const [values, setValues] = useState<RunFormValues>({
@@ -101,7 +116,7 @@ function RunControls({ adder, state, onStart, onCancel }: { adder: CheckedAdder;
   const timing = values.check === 'slowest-vector';
   const seeded = timing || values.mode === 'random';
   return (
-    <form className="grid items-start gap-2 p-3 md:grid-cols-[1fr_1.4fr_1fr_1fr_auto]" onSubmit={submit} noValidate aria-label="Run in this browser">
+    <form className="flex flex-wrap items-start gap-x-3 gap-y-2 p-3 [&>*]:w-[15rem]" onSubmit={submit} noValidate aria-label="Run in this browser">
       <Field label="Check">
         <select className="field" value={values.check} disabled={running} onChange={(e) => set({ check: e.target.value as RunFormValues['check'] })}>
           <option value="equivalence">equivalence</option>
@@ -127,17 +142,14 @@ function RunControls({ adder, state, onStart, onCancel }: { adder: CheckedAdder;
         <Field label="Vectors to try" error={{ message: errors.vectors }}>
           <input className="field mono" inputMode="numeric" value={values.vectors} disabled={running} onChange={(e) => set({ vectors: e.target.value })} />
         </Field>
-      ) : (
-        <div aria-hidden />
-      )}
+      ) : null}
       {seeded ? (
         <Field label="Seed" error={{ message: errors.seed }}>
           <input className="field mono" inputMode="numeric" value={values.seed} disabled={running} onChange={(e) => set({ seed: e.target.value })} />
         </Field>
-      ) : (
-        <div aria-hidden />
-      )}
-      <div className="flex gap-2 md:pt-[19px]">
+      ) : null}
+      {/* The label's height down, so the buttons line up with the fields. */}
+      <div className="flex !w-auto gap-2 pt-[19px]">
         <button className="btn btn-primary" disabled={running}>
           Start
         </button>
@@ -150,7 +162,7 @@ function RunControls({ adder, state, onStart, onCancel }: { adder: CheckedAdder;
 }
 
 function RunProgress({ state }: { state: BrowserRunState }) {
-  if (state.phase !== 'running' && state.phase !== 'cancelled') return null;
+  if (state.phase !== 'running') return null;
   const { done, total, unit, elapsedMs } = state;
   const fraction = total ? Math.min(1, done / total) : 0;
   return (
@@ -163,7 +175,7 @@ function RunProgress({ state }: { state: BrowserRunState }) {
         aria-valuemax={100}
         aria-valuenow={Math.floor(fraction * 100)}
       >
-        <div className={`h-full ${state.phase === 'running' ? 'bg-accent' : 'bg-muted'}`} style={{ width: `${fraction * 100}%` }} />
+        <div className="h-full bg-accent" style={{ width: `${fraction * 100}%` }} />
       </div>
       <p className="mono text-[12px]" aria-live="polite">
         {total === null ? `starting… ${seconds(elapsedMs)}` : <ProgressNumbers done={done} total={total} unit={unit} elapsedMs={elapsedMs} />}
@@ -174,9 +186,11 @@ function RunProgress({ state }: { state: BrowserRunState }) {
 
 function ProgressNumbers({ done, total, unit, elapsedMs }: { done: number; total: number; unit: ProgressUnit; elapsedMs: number }) {
   const percent = total ? (100 * done) / total : 0;
+  // A long run's first steps are a sliver of a percent; say so rather than show 0.0.
+  const shown = done > 0 && percent < 0.1 ? '< 0.1' : percent.toFixed(percent < 10 ? 1 : 0);
   return (
     <>
-      {grouped(done)} / {plural(total, unit)} · {percent.toFixed(percent < 10 ? 1 : 0)} % · {seconds(elapsedMs)}
+      {grouped(done)} / {plural(total, unit)} · {shown} % · {seconds(elapsedMs)}
     </>
   );
 }
@@ -199,8 +213,8 @@ function RunResult({ state, adder }: { state: BrowserRunState; adder: CheckedAdd
     return (
       <div className="border-t border-line px-3 py-2">
         <Verdict tone="muted" icon="–">
-          Cancelled after {state.total === null ? '0' : `${grouped(state.done)} of ${plural(state.total, state.unit)}`} ({seconds(state.elapsedMs)}); nothing was
-          concluded.
+          {state.total === null ? 'Cancelled while starting' : `Cancelled after ${grouped(state.done)} of ${plural(state.total, state.unit)}`} (
+          {seconds(state.elapsedMs)}); nothing was concluded.
         </Verdict>
       </div>
     );
@@ -363,85 +377,90 @@ function TimingOutcome({ report, adder }: { report: TimingReport; adder: Checked
     ['to', worst.to],
   ] as const;
   return (
-    <>
-      <dl className="grid grid-cols-[auto_1fr] gap-x-4 gap-y-0.5 text-[13px]">
-        <dt className="text-muted">worst settle time</dt>
-        <dd className="mono font-semibold">{delay(worst.delay)}</dd>
-        <dt className="text-muted">topological delay</dt>
-        <dd className="mono">{delay(topological.delay)}</dd>
-        <dt className="text-muted">pairs timed</dt>
-        <dd>
-          <span className="mono">{grouped(report.pairs)}</span> ({grouped(report.phases.directed)} directed, {grouped(report.phases.random)} random,{' '}
-          {grouped(report.phases.local)} local search; {report.mode} delays)
-        </dd>
-        <dt className="text-muted">found by</dt>
-        <dd>{report.foundBy ? FOUND_BY_WORDS[report.foundBy] : '—'}</dd>
-      </dl>
-      {reached ? (
-        <Verdict tone="plain" icon="▲">
-          The topological path was reached: this pair settles at the full {delay(topological.delay)}, so the longest path is a real critical path.
-        </Verdict>
-      ) : (
-        <Verdict tone="plain" icon="▽">
-          The topological path was not reached: the slowest of these pairs settles {delay(topological.delay - worst.delay)} sooner. Only a search of every pair
-          shows whether it is a false path.
-        </Verdict>
-      )}
-      <table className="tbl w-auto" aria-label="slowest vector pair">
-        <thead>
-          <tr>
-            <th>vector</th>
-            <th>A</th>
-            <th>B</th>
-            <th>cin</th>
-          </tr>
-        </thead>
-        <tbody>
-          {vectorRows.map(([name, v]) => (
-            <tr key={name}>
-              <td>{name}</td>
-              <td>
-                <span className="mono">{hexOf(v.a, adder.width)}</span>
-              </td>
-              <td>
-                <span className="mono">{hexOf(v.b, adder.width)}</span>
-              </td>
-              <td>
-                <span className="mono">{hexOf(v.cin, 1)}</span>
-              </td>
-            </tr>
-          ))}
-        </tbody>
-      </table>
-      <div>
-        <h3 className="mb-1 text-[12px] font-semibold text-muted">Sensitized path ({plural(worst.path.length, 'step')})</h3>
-        <table className="tbl w-auto" aria-label="sensitized path">
+    <div className="grid items-start gap-x-6 gap-y-3 xl:grid-cols-2">
+      <div className="space-y-3">
+        <dl className="grid grid-cols-[auto_1fr] gap-x-4 gap-y-0.5 text-[13px]">
+          <dt className="text-muted">worst settle time</dt>
+          <dd className="mono font-semibold">{delay(worst.delay)}</dd>
+          <dt className="text-muted">topological delay</dt>
+          <dd className="mono">{delay(topological.delay)}</dd>
+          <dt className="text-muted">pairs timed</dt>
+          <dd>
+            <span className="mono">{grouped(report.pairs)}</span> ({grouped(report.phases.directed)} directed, {grouped(report.phases.random)} random,{' '}
+            {grouped(report.phases.local)} local search; {report.mode} delays)
+          </dd>
+          <dt className="text-muted">found by</dt>
+          <dd>{report.foundBy ? FOUND_BY_WORDS[report.foundBy] : '—'}</dd>
+        </dl>
+        {reached ? (
+          <Verdict tone="plain" icon="▲">
+            The topological path was reached: this pair settles at the full {delay(topological.delay)}, so the longest path is a real critical path.
+          </Verdict>
+        ) : (
+          <Verdict tone="plain" icon="▽">
+            The topological path was not reached: the slowest of these pairs settles {delay(topological.delay - worst.delay)} sooner. Only a search of every
+            pair shows whether it is a false path.
+          </Verdict>
+        )}
+        <table className="tbl w-auto" aria-label="slowest vector pair">
           <thead>
             <tr>
-              <th>#</th>
-              <th>net</th>
-              <th>cell</th>
-              <th>time</th>
+              <th>vector</th>
+              <th>A</th>
+              <th>B</th>
+              <th>cin</th>
             </tr>
           </thead>
           <tbody>
-            {worst.path.map((step, k) => (
-              <tr key={k}>
-                <td className="mono text-muted">{k + 1}</td>
+            {vectorRows.map(([name, v]) => (
+              <tr key={name}>
+                <td>{name}</td>
                 <td>
-                  <span className="mono">{step.net}</span>
+                  <span className="mono">{hexOf(v.a, adder.width)}</span>
                 </td>
                 <td>
-                  <span className="mono">{step.cell ?? '(input)'}</span>
+                  <span className="mono">{hexOf(v.b, adder.width)}</span>
                 </td>
-                <td className="text-right">
-                  <span className="mono">{delay(step.time)}</span>
+                <td>
+                  <span className="mono">{hexOf(v.cin, 1)}</span>
                 </td>
               </tr>
             ))}
           </tbody>
         </table>
       </div>
-    </>
+      <div>
+        <h3 className="mb-1 text-[12px] font-semibold text-muted">Sensitized path ({plural(worst.path.length, 'step')})</h3>
+        {/* Wide adders have long paths: the table scrolls rather than stretching the page. */}
+        <div className="max-h-[360px] overflow-auto">
+          <table className="tbl w-auto" aria-label="sensitized path">
+            <thead>
+              <tr>
+                <th>#</th>
+                <th>net</th>
+                <th>cell</th>
+                <th>time</th>
+              </tr>
+            </thead>
+            <tbody>
+              {worst.path.map((step, k) => (
+                <tr key={k}>
+                  <td className="mono text-muted">{k + 1}</td>
+                  <td>
+                    <span className="mono">{step.net}</span>
+                  </td>
+                  <td>
+                    <span className="mono">{step.cell ?? '(input)'}</span>
+                  </td>
+                  <td className="text-right">
+                    <span className="mono">{delay(step.time)}</span>
+                  </td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+      </div>
+    </div>
   );
 }

@@ -31,10 +31,7 @@ export function progressUnit(request: BrowserRunRequest): ProgressUnit {
 }
 
 export type RunOutcome =
-  | { status: 'verified'; result: VerifyResult }
-  | { status: 'timed'; report: TimingReport }
-  | { status: 'cancelled' }
-  | { status: 'failed'; message: string };
+  { status: 'verified'; result: VerifyResult } | { status: 'timed'; report: TimingReport } | { status: 'cancelled' } | { status: 'failed'; message: string };
 
 export interface RunHandle {
   outcome: Promise<RunOutcome>;
@@ -84,7 +81,11 @@ export class EnginePool {
     worker.addEventListener('error', (e) => {
       // Handled here: the run reports it, rather than an uncaught error in the console.
       e.preventDefault();
-      this.drop(index, { ok: false, code: 'worker', message: `The engine worker stopped: ${e.message || 'its script could not be loaded'}. Reload the page and try again.` });
+      this.drop(index, {
+        ok: false,
+        code: 'worker',
+        message: `The engine worker stopped: ${e.message || 'its script could not be loaded'}. Reload the page and try again.`,
+      });
     });
     this.slots[index] = made;
     return made;
@@ -169,7 +170,11 @@ export function startBrowserRun(pool: EnginePool, source: EngineSource, request:
       return answer.ok ? { status: 'timed', report: answer.value } : failed(answer);
     }
     const one: VerifyRequest | null =
-      request.mode === 'proof' ? { mode: 'proof', method: 'auto' } : request.mode === 'random' ? { mode: 'random', count: request.count, seed: request.seed } : null;
+      request.mode === 'proof'
+        ? { mode: 'proof', method: 'auto' }
+        : request.mode === 'random'
+          ? { mode: 'random', count: request.count, seed: request.seed }
+          : null;
     const answer = one ? await pool.call(0, (api) => api.verify(source, one, Comlink.proxy(onProgress))) : await verifyEveryVector(pool, source, onProgress);
     return answer.ok ? { status: 'verified', result: answer.value } : failed(answer);
   };

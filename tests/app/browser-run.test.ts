@@ -30,7 +30,9 @@ describe('engine worker API', () => {
     const bits = value(engineApi.spaceBits(source));
     expect(bits).toBe(13);
     const count = 3;
-    const shards = Array.from({ length: count }, (_, index) => structuredClone(value(engineApi.verify(source, { mode: 'exhaustive', shard: { index, count } }))));
+    const shards = Array.from({ length: count }, (_, index) =>
+      structuredClone(value(engineApi.verify(source, { mode: 'exhaustive', shard: { index, count } }))),
+    );
     const merged = mergeShardResults(shards, 0);
     expect({ ...merged, elapsedMs: 0 }).toEqual({ ...one, elapsedMs: 0 });
     expect(typeof merged.counterexample!.a).toBe('bigint');
@@ -39,7 +41,9 @@ describe('engine worker API', () => {
   it('answers random and proof runs and the slowest-vector search', () => {
     const random = value(engineApi.verify(source, { mode: 'random', count: 5000, seed: '7' }));
     expect(random).toMatchObject({ mode: 'random', seed: 7n });
-    const proof = value(engineApi.verify({ text: writeVerilog(generateAdder({ arch: 'skip', width: 8, block: 4 })), fileName: 'ok.v' }, { mode: 'proof', method: 'auto' }));
+    const proof = value(
+      engineApi.verify({ text: writeVerilog(generateAdder({ arch: 'skip', width: 8, block: 4 })), fileName: 'ok.v' }, { mode: 'proof', method: 'auto' }),
+    );
     expect(proof).toMatchObject({ equivalent: true, complete: true, mode: 'proof' });
     const timing = value(engineApi.timing(source, { count: 500, seed: '1' }));
     expect(timing.pairs).toBe(500);
@@ -60,7 +64,11 @@ describe('engine worker API', () => {
   it('reports progress at most once per interval', () => {
     let clock = 0;
     const seen: number[] = [];
-    const report = throttleProgress((done) => seen.push(done), 100, () => clock)!;
+    const report = throttleProgress(
+      (done) => seen.push(done),
+      100,
+      () => clock,
+    )!;
     for (let done = 1; done <= 10; done++, clock += 30) report(done, 10);
     // t = 0, 120, 240: the reports at 30, 60, 90, 150, … fall inside an interval.
     expect(seen).toEqual([1, 5, 9]);
@@ -82,7 +90,14 @@ describe('page side', () => {
     expect(sourceFileName('json', null)).toBe('netlist.json');
   });
 
-  const form = (patch: Partial<RunFormValues>): RunFormValues => ({ check: 'equivalence', mode: 'exhaustive', vectors: '1000', pairs: '100', seed: '1', ...patch });
+  const form = (patch: Partial<RunFormValues>): RunFormValues => ({
+    check: 'equivalence',
+    mode: 'exhaustive',
+    vectors: '1000',
+    pairs: '100',
+    seed: '1',
+    ...patch,
+  });
 
   it('turns the form into a request', () => {
     expect(requestFromForm(form({}))).toEqual({ request: { check: 'equivalence', mode: 'exhaustive' } });
@@ -98,7 +113,9 @@ describe('page side', () => {
     expect(requestFromForm(form({ mode: 'random', vectors: '0', seed: 'abc' }))).toEqual({
       errors: { vectors: 'Give the number of vectors as a whole number of at least 1', seed: 'The seed must be a whole number of up to 20 digits' },
     });
-    expect(requestFromForm(form({ check: 'slowest-vector', pairs: '1e9' }))).toEqual({ errors: { pairs: 'Give the number of pairs as a whole number of at least 1' } });
+    expect(requestFromForm(form({ check: 'slowest-vector', pairs: '1e9' }))).toEqual({
+      errors: { pairs: 'Give the number of pairs as a whole number of at least 1' },
+    });
     expect(requestFromForm(form({ check: 'slowest-vector', pairs: '100000001' }))).toEqual({ errors: { pairs: 'Give at most 100,000,000 pairs for one run' } });
   });
 });
