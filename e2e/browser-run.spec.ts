@@ -26,18 +26,27 @@ test.beforeAll(async ({ playwright }, testInfo) => {
   const baseURL = testInfo.project.use.baseURL!;
   // A fresh context: the session file it writes does not exist yet.
   const api = await playwright.request.newContext({ baseURL, extraHTTPHeaders: { origin: baseURL }, storageState: { cookies: [], origins: [] } });
-  const ok = async (res: Awaited<ReturnType<typeof api.post>>) => {
+  const ok = async <T = unknown>(res: Awaited<ReturnType<typeof api.post>>): Promise<T> => {
     expect(res.ok(), `${res.url()}: ${res.status()} ${await res.text()}`).toBe(true);
-    return res.json();
+    return (await res.json()) as T;
   };
   await ok(await api.post('/api/auth/sign-up/email', { data: account }));
-  const { project } = await ok(await api.post('/api/projects', { data: { name: 'Browser runs' } }));
+  const { project } = await ok<{ project: { id: string } }>(await api.post('/api/projects', { data: { name: 'Browser runs' } }));
   for (const name of ['tick-skip-8-fault', 'mac-skip-32-var', 'acc-skip-16']) {
     const d = demo(name);
-    const { netlist } = await ok(await api.post(`/api/projects/${project.id}/netlists`, { data: { name: d.name, width: d.width, kind: d.kind } }));
+    const { netlist } = await ok<{ netlist: { id: string } }>(
+      await api.post(`/api/projects/${project.id}/netlists`, { data: { name: d.name, width: d.width, kind: d.kind } }),
+    );
     await ok(await api.post(`/api/netlists/${netlist.id}/revisions`, { data: { content: d.content(), filename: d.filename } }));
     netlistIds.set(name, netlist.id);
   }
+  // Two sum bits, one of them undriven: a lint error.
+  const { netlist } = await ok<{ netlist: { id: string } }>(
+    await api.post(`/api/projects/${project.id}/netlists`, { data: { name: 'half-done', width: 2, kind: 'other' } }),
+  );
+  const halfDone = 'module add(a, b, s); input [1:0] a, b; output [1:0] s; assign s[0] = a[0] ^ b[0]; endmodule\n';
+  await ok(await api.post(`/api/netlists/${netlist.id}/revisions`, { data: { content: halfDone, filename: 'add.v' } }));
+  netlistIds.set('half-done', netlist.id);
   await api.storageState({ path: sessionFile });
   await api.dispose();
 });
@@ -53,11 +62,11 @@ function watchWorkers(page: Page) {
 }
 
 /** Opens the netlist's latest revision; returns the panel. */
-async function openPanel(page: Page, name: string): Promise<Locator> {
+async function openPanel(page: Page, name: string, { runnable = true } = {}): Promise<Locator> {
   await page.goto(`/netlists/${netlistIds.get(name)}`);
   const panel = page.getByRole('region', { name: 'Run in this browser' });
-  await expect(panel.getByRole('button', { name: 'Start' })).toBeEnabled();
   await expect(panel.getByText("Simulated delays are estimates from the delay table; sign-off follows your team's own flow.")).toBeVisible();
+  if (runnable) await expect(panel.getByRole('button', { name: 'Start' })).toBeEnabled();
   return panel;
 }
 
@@ -159,4 +168,12 @@ test('a slowest-vector search: the worst settle time is at most the topological 
   const path = panel.getByRole('table', { name: 'sensitized path' });
   await expect(path.locator('tbody tr').last().locator('td').last()).toHaveText(`${worst} ps`);
   await expect(panel.getByRole('table', { name: 'slowest vector pair' }).locator('tbody tr')).toHaveCount(2);
+});
+
+test('a revision with lint errors cannot be run, and the panel says why', async ({ page }) => {
+  const workers = watchWorkers(page);
+  const panel = await openPanel(page, 'half-done', { runnable: false });
+  await expect(panel.getByRole('alert')).toContainText('Runs need a netlist that lints clean, and this revision has 1 lint error');
+  await expect(panel.getByRole('button', { name: 'Start' })).toHaveCount(0);
+  expect(workers.started).toBe(0);
 });

@@ -69,7 +69,7 @@ export function BrowserRun({ revision, check }: BrowserRunProps) {
         <div className="p-3">
           <Notice tone="bad">
             {check.errors.length > 0
-              ? `This revision has ${plural(check.errors.length, 'lint error')} (see Netlist check above): fix ${check.errors.length === 1 ? 'it' : 'them'} and add a new revision to run it.`
+              ? `Runs need a netlist that lints clean, and this revision has ${plural(check.errors.length, 'lint error')} (see Netlist check above): fix ${check.errors.length === 1 ? 'it' : 'them'} and add a new revision.`
               : 'The engine could not resolve this revision\u2019s adder ports, so there is nothing to run.'}
           </Notice>
         </div>
