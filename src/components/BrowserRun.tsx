@@ -4,13 +4,12 @@
  * computer's engine workers. It renders the state useBrowserRun keeps.
  */
 import { useMemo, useState, type FormEvent, type ReactNode } from 'react';
-import type { AdderPorts } from '../engine/flat';
 import { vectorSpaceBits } from '../engine/pipeline';
 import type { TimingReport } from '../engine/slowest';
 import type { Counterexample, VerifyResult } from '../engine/verify/result';
 import { QUICK_EXHAUSTIVE_BITS } from '../engine/verify/result';
-import type { RevisionFormat } from '../lib/rules';
-import { sourceFileName, type BrowserRunRequest, type ProgressUnit } from './engine-client';
+import { revisionSourceName, type RevisionFormat } from '../lib/rules';
+import { type BrowserRunRequest, type ProgressUnit } from './engine-client';
 import { delay } from './format';
 import type { NetlistCheckResult } from './NetlistCheck';
 import { Field, Notice, Panel } from './ui';
@@ -36,10 +35,6 @@ function hexOf(value: bigint, bits: number): string {
   return `0x${value.toString(16).padStart(Math.max(1, Math.ceil(bits / 4)), '0')}`;
 }
 
-/** Bits of the adder's vector space, from the ports the server's check resolved (pipeline.ts reads only width and whether there is a carry-in). */
-function spaceBitsOf(adder: CheckedAdder): number {
-  return vectorSpaceBits({ width: adder.width, cin: adder.cin === null ? null : -1 } as AdderPorts);
-}
 
 export interface BrowserRunProps {
   revision: { content?: string; format: string; filename: string | null };
@@ -51,7 +46,7 @@ export function BrowserRun({ revision, check }: BrowserRunProps) {
   const source = useMemo(
     () =>
       adder && revision.content !== undefined
-        ? { text: revision.content, fileName: sourceFileName(revision.format as RevisionFormat, revision.filename) }
+        ? { text: revision.content, fileName: revisionSourceName(revision.format as RevisionFormat, revision.filename) }
         : null,
     [adder, revision.content, revision.format, revision.filename],
   );
@@ -92,7 +87,7 @@ function RunControls({
   onStart: (r: BrowserRunRequest) => void;
   onCancel: () => void;
 }) {
-  const spaceBits = spaceBitsOf(adder);
+  const spaceBits = vectorSpaceBits(adder);
   const everyVectorFits = spaceBits <= QUICK_EXHAUSTIVE_BITS;
   const [values, setValues] = useState<RunFormValues>({
     check: 'equivalence',

@@ -9,7 +9,6 @@ import * as Comlink from 'comlink';
 import type { TimingReport } from '../engine/slowest';
 import type { VerifyResult } from '../engine/verify/result';
 import { mergeShardResults, shardCount } from '../engine/verify/shards';
-import type { RevisionFormat } from '../lib/rules';
 import type { EngineApi, EngineFailure, EngineOutcome, EngineSource, ProgressCallback, VerifyRequest } from '../../workers/engine.worker';
 
 /** Enough workers to use a typical laptop's cores, not so many that a page takes over the machine. */
@@ -40,17 +39,6 @@ export interface RunHandle {
 }
 
 const CANCELLED: EngineFailure = { ok: false, code: 'cancelled', message: 'cancelled' };
-
-/**
- * The name the engine reads a stored revision under: the stored file name,
- * with the suffix its format calls for (the rule lib/netlist-check.ts
- * applies on the server, so messages name the same file).
- */
-export function sourceFileName(format: RevisionFormat, filename: string | null): string {
-  const suffix = format === 'verilog' ? '.v' : '.json';
-  const name = filename ?? `netlist${suffix}`;
-  return name.toLowerCase().endsWith(suffix) ? name : `${name}${suffix}`;
-}
 
 /** Done over all shards: each shard reports its own count, the run shows their sum. */
 export function sumShardProgress(doneByShard: readonly number[]): number {

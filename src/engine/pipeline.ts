@@ -39,7 +39,11 @@ export function prepareAdder(design: Design, opts: PrepareOptions = {}): Prepare
   return { lint: findings, adder: { design, flat, compiled, ports } };
 }
 
-/** Number of distinct vectors of an adder: 2^(2n), times 2 with a carry-in (SPEC §1). */
-export function vectorSpaceBits(ports: AdderPorts): number {
+/**
+ * Number of distinct vectors of an adder: 2^(2n), times 2 with a carry-in
+ * (SPEC §1). Only the width and whether a carry-in exists (`cin` not null)
+ * matter, so resolved ports and the server's check summary both serve.
+ */
+export function vectorSpaceBits(ports: { width: number; cin: unknown }): number {
   return 2 * ports.width + (ports.cin === null ? 0 : 1);
 }

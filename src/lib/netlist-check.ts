@@ -9,7 +9,7 @@ import { EngineError } from '../engine/errors';
 import { parseDesign } from '../engine/json';
 import type { Finding } from '../engine/lint';
 import { prepareAdder } from '../engine/pipeline';
-import type { RevisionFormat } from './rules';
+import { revisionSourceName, type RevisionFormat } from './rules';
 
 export interface NetlistCheck {
   top: string;
@@ -20,16 +20,9 @@ export interface NetlistCheck {
   warnings: Finding[];
 }
 
-/** The name messages use for a revision's text when it came without a file name. */
-export function checkedName(format: RevisionFormat, filename: string | null): string {
-  return filename ?? (format === 'verilog' ? 'netlist.v' : 'netlist.json');
-}
-
 /** Reads and lints a netlist. Throws EngineError (with line and column) when the text cannot be read. */
 export function checkNetlist(text: string, format: RevisionFormat, filename: string | null): NetlistCheck {
-  const name = checkedName(format, filename);
-  // The format decides the reader, whatever the name ends in.
-  const design = parseDesign(text, format === 'verilog' ? ensureSuffix(name, '.v') : ensureSuffix(name, '.json'));
+  const design = parseDesign(text, revisionSourceName(format, filename));
   const prepared = prepareAdder(design);
   const ports = prepared.adder?.ports;
   return {
@@ -41,16 +34,12 @@ export function checkNetlist(text: string, format: RevisionFormat, filename: str
   };
 }
 
-function ensureSuffix(name: string, suffix: string): string {
-  return name.toLowerCase().endsWith(suffix) ? name : `${name}${suffix}`;
-}
-
 /** The check of a stored revision: a parse error becomes one finding rather than an exception. */
 export function checkStoredNetlist(text: string, format: RevisionFormat, filename: string | null): NetlistCheck {
   try {
     return checkNetlist(text, format, filename);
   } catch (e) {
     if (!(e instanceof EngineError)) throw e;
-    return { top: '', modules: 0, adder: null, errors: [{ code: e.code, message: e.message, where: e.where ?? checkedName(format, filename) }], warnings: [] };
+    return { top: '', modules: 0, adder: null, errors: [{ code: e.code, message: e.message, where: e.where ?? revisionSourceName(format, filename) }], warnings: [] };
   }
 }

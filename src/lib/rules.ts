@@ -23,6 +23,18 @@ export const REVISION_SUFFIXES: Record<string, RevisionFormat> = { '.v': 'verilo
 export const PASSWORD_MIN = 8;
 export const PASSWORD_MAX = 128;
 
+/**
+ * The file name the engine reads a revision's text under: the stored name,
+ * or `netlist`, with the suffix of its format added when missing (the
+ * format decides the reader, whatever the name ends in). The server check
+ * and the browser runs use it, so their messages name the same file.
+ */
+export function revisionSourceName(format: RevisionFormat, filename: string | null): string {
+  const suffix = format === 'verilog' ? '.v' : '.json';
+  const name = filename ?? `netlist${suffix}`;
+  return name.toLowerCase().endsWith(suffix) ? name : `${name}${suffix}`;
+}
+
 const oneOf = (what: string, values: readonly string[]) => `${what} must be one of ${values.join(', ')}`;
 
 export const personName = z.string().trim().min(1, 'Enter a name').max(80, 'Keep the name to 80 characters or fewer');

@@ -11,7 +11,8 @@ import { prepareAdder } from '../../src/engine/pipeline';
 import { verifyExhaustive } from '../../src/engine/verify/bitsliced';
 import { mergeShardResults } from '../../src/engine/verify/shards';
 import { writeVerilog } from '../../src/engine/verilog/write';
-import { progressUnit, sourceFileName, sumShardProgress } from '../../src/components/engine-client';
+import { progressUnit, sumShardProgress } from '../../src/components/engine-client';
+import { revisionSourceName } from '../../src/lib/rules';
 import { requestFromForm, type RunFormValues } from '../../src/components/use-browser-run';
 import { engineApi, throttleProgress, type EngineOutcome } from '../../workers/engine.worker';
 
@@ -85,9 +86,9 @@ describe('page side', () => {
   });
 
   it('reads a stored revision under the name the server checks it under', () => {
-    expect(sourceFileName('verilog', 'acc.v')).toBe('acc.v');
-    expect(sourceFileName('verilog', 'acc.txt')).toBe('acc.txt.v');
-    expect(sourceFileName('json', null)).toBe('netlist.json');
+    expect(revisionSourceName('verilog', 'acc.v')).toBe('acc.v');
+    expect(revisionSourceName('verilog', 'acc.txt')).toBe('acc.txt.v');
+    expect(revisionSourceName('json', null)).toBe('netlist.json');
   });
 
   const form = (patch: Partial<RunFormValues>): RunFormValues => ({
