@@ -111,7 +111,7 @@ function RunControls({
   const timing = values.check === 'slowest-vector';
   const seeded = timing || values.mode === 'random';
   return (
-    <form className="flex flex-wrap items-start gap-x-3 gap-y-2 p-3 [&>*]:w-[15rem]" onSubmit={submit} noValidate aria-label="Run in this browser">
+    <form className="flex flex-wrap items-start gap-x-3 gap-y-2 p-3 [&>*]:w-[17rem]" onSubmit={submit} noValidate aria-label="Run in this browser">
       <Field label="Check">
         <select className="field" value={values.check} disabled={running} onChange={(e) => set({ check: e.target.value as RunFormValues['check'] })}>
           <option value="equivalence">equivalence</option>
