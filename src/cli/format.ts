@@ -47,18 +47,25 @@ const high = (x: number): number => (x - (x >>> 0)) / 2 ** 32;
 /** Room for one step of numbers: a comma, every part, 14 hex digits for each of four values and up to 24 characters for each of three. */
 const STEP_ROOM = STEP_PARTS.reduce((n, p) => n + p.length, 1) + 4 * 14 + 3 * 24;
 
+/** Chunk sizes of a StepJsonWriter: small for a short run, never copied when a long one outgrows them. */
+const FIRST_CHUNK = 1 << 16;
+const LARGEST_CHUNK = 1 << 20;
+
 /**
- * Steps of `sim --json` written as ASCII bytes, joined by commas: the same
- * text as `stepJson` gives (tests compare them), without a string per step.
- * Values up to 53 bits come as numbers; wider steps go through `stepJson`.
+ * Steps of `sim --json` written as ASCII bytes: the same text as
+ * `stepJson` gives (tests compare them), without a string per step. Values
+ * up to 53 bits come as numbers; wider steps go through `stepJson`. The
+ * bytes come in chunks of whole steps joined by commas, to be joined by
+ * commas again (as `simJsonChunks` does).
  */
 export class StepJsonWriter {
-  private buffer = new Uint8Array(1 << 16);
+  private readonly full: Uint8Array[] = [];
+  private buffer = new Uint8Array(FIRST_CHUNK);
   private length = 0;
 
-  /** The bytes written so far (a view: the writer may write on past it). */
-  get bytes(): Uint8Array {
-    return this.buffer.subarray(0, this.length);
+  /** The steps written so far (the last chunk is a view: the writer may write on past it). */
+  get chunks(): Uint8Array[] {
+    return this.length > 0 ? [...this.full, this.buffer.subarray(0, this.length)] : [...this.full];
   }
 
   /** A step whose operands are integers below 2^53 and whose sum is given as bits 32 and up and bits 0 to 31. */
@@ -86,19 +93,20 @@ export class StepJsonWriter {
     this.length = putText(this.buffer, this.length, text);
   }
 
+  /** Makes room for n more bytes, in a new chunk if this one is short. */
   private room(n: number): void {
     if (this.length + n <= this.buffer.length) return;
-    const grown = new Uint8Array(Math.max(2 * this.buffer.length, this.length + n));
-    grown.set(this.bytes);
-    this.buffer = grown;
+    if (this.length > 0) this.full.push(this.buffer.subarray(0, this.length));
+    this.buffer = new Uint8Array(Math.max(n, Math.min(2 * this.buffer.length, LARGEST_CHUNK)));
+    this.length = 0;
   }
 }
 
 // Each put… writes at out[at] and on, and returns where it stopped.
 
 function putBytes(out: Uint8Array, at: number, bytes: Uint8Array): number {
-  for (let i = 0; i < bytes.length; i++) out[at++] = bytes[i];
-  return at;
+  out.set(bytes, at);
+  return at + bytes.length;
 }
 
 function putText(out: Uint8Array, at: number, ascii: string): number {
@@ -111,13 +119,12 @@ function putHex(out: Uint8Array, at: number, high: number, low: number): number 
   return high !== 0 ? putHex32(out, putHex32(out, at, high, 1), low, 8) : putHex32(out, at, low, 1);
 }
 
+const HEX_DIGITS = ascii('0123456789abcdef');
+
 /** An unsigned 32-bit x in hexadecimal, at least `min` digits. */
 function putHex32(out: Uint8Array, at: number, x: number, min: number): number {
   const end = at + Math.max(min, (35 - Math.clz32(x)) >> 2);
-  for (let i = end - 1; i >= at; i--, x >>>= 4) {
-    const d = x & 15;
-    out[i] = d < 10 ? 48 + d : 87 + d;
-  }
+  for (let i = end - 1; i >= at; i--, x >>>= 4) out[i] = HEX_DIGITS[x & 15];
   return end;
 }
 

@@ -62,49 +62,46 @@ export function parseVectorNumbers(text: string, fileName: string, opts: VectorF
   return out.subarray(0, used);
 }
 
-/** The three words of the present line: where each one's text is, and its value. */
+/** The three words of the present line: where each one is in `source`, and its value. */
 class LineWords {
   /** Each word's value as a double: exact below 2^53, and 2^53 or more for a word that large (see `wordValue`). */
   readonly value = new Float64Array(3);
-  readonly source: string[] = ['', '', ''];
   readonly start = new Int32Array(3);
   readonly end = new Int32Array(3);
+  /** The whole text (the ASCII reading) or the line alone (the general one). */
+  source = '';
 
   text(k: number): string {
-    return this.source[k].slice(this.start[k], this.end[k]);
+    return this.source.slice(this.start[k], this.end[k]);
   }
 
-  private set(k: number, source: string, start: number, end: number): void {
-    this.source[k] = source;
+  /** Word k is source[start, end); false when it is no number. */
+  private set(k: number, start: number, end: number): boolean {
     this.start[k] = start;
     this.end[k] = end;
-    this.value[k] = wordValue(source, start, end);
+    this.value[k] = wordValue(this.source, start, end);
+    return this.value[k] === this.value[k];
   }
 
   /**
-   * Cut text[from, to) into words by hand when it holds only ASCII: 3 when
-   * it is three numbers, 0 when blank, −1 when the general reading must
-   * decide (other characters, another count, a word that is no number).
+   * Cut text[from, to) into words by hand when it holds only printable
+   * ASCII: 3 when it is three numbers, 0 when blank, −1 when the general
+   * reading must decide (other characters, another count, a word that is
+   * no number).
    */
   readAscii(text: string, from: number, to: number): number {
+    this.source = text;
     let count = 0;
-    let start = -1;
-    for (let i = from; i <= to; i++) {
-      const c = i < to ? text.charCodeAt(i) : 35;
-      if (c > 126) return -1;
-      // Space, tab, \v, \f and \r separate words (JavaScript's \s within ASCII); '#' ends the line's code.
-      const gap = c === 32 || (c >= 9 && c <= 13) || c === 35;
-      if (gap && start >= 0) {
-        if (count === 3) return -1;
-        this.set(count++, text, start, i);
-        if (Number.isNaN(this.value[count - 1])) return -1;
-        start = -1;
-      } else if (!gap && start < 0) {
-        start = i;
-      }
-      if (c === 35) break;
+    for (let i = from; ; count++) {
+      let c = 0;
+      // Space, \t, \n, \v, \f and \r: JavaScript's \s within ASCII.
+      while (i < to && ((c = text.charCodeAt(i)) === 32 || (c >= 9 && c <= 13))) i++;
+      if (i === to || c === 35) return count === 0 || count === 3 ? count : -1;
+      const start = i;
+      while (i < to && (c = text.charCodeAt(i)) > 32 && c < 127 && c !== 35) i++;
+      // An empty word is a character the loops above do not know.
+      if (count === 3 || !this.set(count, start, i)) return -1;
     }
-    return count === 0 || count === 3 ? count : -1;
   }
 
   /** The general reading of one line (any whitespace, every message); false when the line is blank. */
@@ -113,9 +110,13 @@ class LineWords {
     const words = (hash >= 0 ? line.slice(0, hash) : line).trim().split(/\s+/);
     if (words.length === 1 && words[0] === '') return false;
     if (words.length !== 3) vectorError(fileName, lineNo, `expected three numbers 'A B CIN', found ${words.length}`, line);
+    this.source = line;
+    let at = 0;
     words.forEach((word, k) => {
       if (!HEX.test(word) && !DEC.test(word)) vectorError(fileName, lineNo, `${NAMES[k]} '${word}' is not a number (hexadecimal with 0x, or decimal)`, line, word);
-      this.set(k, word, 0, word.length);
+      // Words are whitespace apart, so the next place of this one is where it stands.
+      at = line.indexOf(word, at);
+      this.set(k, at, (at += word.length));
     });
     return true;
   }
@@ -124,10 +125,10 @@ class LineWords {
 /** Check every vector line of `text` and hand its words to `take`, in order. */
 function readVectors(text: string, fileName: string, opts: VectorFileOptions, take: (words: LineWords) => void): void {
   const { width } = opts;
-    const words = new LineWords();
-  // A double decides `≥ 2^width` up to 53 bits; past that, a value of 2^53 or more is read again as BigInt.
-  const tooWide = (k: number) =>
-    width <= MAX_NUMBER_BITS ? words.value[k] >= 2 ** width : words.value[k] >= 2 ** MAX_NUMBER_BITS && BigInt(words.text(k)) >> BigInt(width) !== 0n;
+  const words = new LineWords();
+  // Values below `fits` fit for sure; a double decides `≥ 2^width` up to 53 bits, past that BigInt does.
+  const fits = 2 ** Math.min(width, MAX_NUMBER_BITS);
+  const tooWide = (k: number) => words.value[k] >= fits && (width <= MAX_NUMBER_BITS || BigInt(words.text(k)) >> BigInt(width) !== 0n);
   let count = 0;
   let lineNo = opts.firstLine ?? 1;
   // The present line is text[start, end), as `text.split('\n')` would give it, but made only for a message.
@@ -139,8 +140,10 @@ function readVectors(text: string, fileName: string, opts: VectorFileOptions, ta
     if (end < 0) end = text.length;
     const found = words.readAscii(text, start, end);
     if (found === 0 || (found < 0 && !words.read(line(), fileName, lineNo))) continue;
-    for (let k = 0; k < 2; k++) {
-      if (tooWide(k)) vectorError(fileName, lineNo, `${NAMES[k]} = ${words.text(k)} is wider than the adder's ${width} bits`, line(), words.text(k));
+    if (words.value[0] >= fits || words.value[1] >= fits) {
+      for (let k = 0; k < 2; k++) {
+        if (tooWide(k)) vectorError(fileName, lineNo, `${NAMES[k]} = ${words.text(k)} is wider than the adder's ${width} bits`, line(), words.text(k));
+      }
     }
     const cin = words.value[2];
     if (cin > 1) vectorError(fileName, lineNo, `CIN must be 0 or 1, found ${words.text(2)}`, line(), words.text(2));
