@@ -53,6 +53,25 @@ export class SeededRandom {
     return result;
   }
 
+  /** out[from … to − 1] = the next to − from values of `nextU32`, in order; the state stays in locals meanwhile. */
+  fill(out: Uint32Array, from: number, to: number): void {
+    let { s0, s1, s2, s3 } = this;
+    for (let i = from; i < to; i++) {
+      out[i] = Math.imul(rotl(Math.imul(s1, 5) >>> 0, 7), 9);
+      const t = s1 << 9;
+      s2 ^= s0;
+      s3 ^= s1;
+      s1 ^= s2;
+      s0 ^= s3;
+      s2 ^= t;
+      s3 = rotl(s3, 11);
+    }
+    this.s0 = s0 >>> 0;
+    this.s1 = s1 >>> 0;
+    this.s2 = s2 >>> 0;
+    this.s3 = s3 >>> 0;
+  }
+
   /** A uniformly random value of `bits` bits as a BigInt. */
   nextBits(bits: number): bigint {
     let v = 0n;
@@ -87,4 +106,43 @@ export function randomVector(rng: SeededRandom, width: number, hasCin: boolean):
   const b = rng.nextBits(width);
   const cin = hasCin ? BigInt(rng.nextU32() & 1) : 0n;
   return { a, b, cin };
+}
+
+/** 32-bit words per operand of an n-bit adder in `randomVectorWords`. */
+export const operandWords = (width: number): number => Math.ceil(width / 32);
+
+/**
+ * `randomVector` without BigInt: the same draws in the same order (A's
+ * words, most significant first, then B's, then the carry-in's u32 if the
+ * design has one), written as unsigned 32-bit words to out[at …]: A least
+ * significant word first, its top word cut to the width as `nextBits`
+ * truncates, then B likewise, then the carry-in (0 without one). Returns
+ * the index after the last word, at + 2 · operandWords(width) + 1.
+ */
+export function randomVectorWords(rng: SeededRandom, width: number, hasCin: boolean, out: Uint32Array, at: number): number {
+  const n = operandWords(width);
+  const top = width - 32 * (n - 1);
+  // The draws in stream order, then put in place: each operand turned round and cut to the width.
+  rng.fill(out, at, at + 2 * n + (hasCin ? 1 : 0));
+  for (let operand = at; operand < at + 2 * n; operand += n) {
+    for (let i = operand, j = operand + n - 1; i < j; i++, j--) {
+      const t = out[i];
+      out[i] = out[j];
+      out[j] = t;
+    }
+    if (top < 32) out[operand + n - 1] &= (1 << top) - 1;
+  }
+  out[at + 2 * n] = hasCin ? out[at + 2 * n] & 1 : 0;
+  return at + 2 * n + 1;
+}
+
+/** The vector of `randomVectorWords`' words at out[at …], as BigInts. */
+export function vectorFromWords(words: Uint32Array, at: number, width: number): Vector {
+  const n = operandWords(width);
+  const operand = (from: number) => {
+    let v = 0n;
+    for (let i = from + n - 1; i >= from; i--) v = (v << 32n) | BigInt(words[i]);
+    return v;
+  };
+  return { a: operand(at), b: operand(at + n), cin: BigInt(words[at + 2 * n]) };
 }

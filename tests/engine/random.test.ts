@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { SeededRandom, randomVector } from '../../src/engine/random';
+import { SeededRandom, operandWords, randomVector, randomVectorWords, vectorFromWords } from '../../src/engine/random';
 
 describe('SeededRandom (xoshiro128**)', () => {
   it('matches the reference output of xoshiro128** from state {1, 2, 3, 4}', () => {
@@ -51,5 +51,57 @@ describe('SeededRandom (xoshiro128**)', () => {
       seen.add(v);
     }
     expect(seen.size).toBe(6);
+  });
+});
+
+describe('randomVectorWords (randomVector without BigInt)', () => {
+  it('draws the vectors of randomVector, word for word, for widths 1 to 128, with and without carry-in', () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 1, max: 128 }), fc.bigInt({ min: 0n, max: (1n << 64n) - 1n }), fc.boolean(), fc.integer({ min: 1, max: 12 }), (width, seed, hasCin, count) => {
+        const reference = new SeededRandom(seed);
+        const rng = new SeededRandom(seed);
+        const n = operandWords(width);
+        const words = new Uint32Array(count * (2 * n + 1) + 1);
+        words[words.length - 1] = 0xdeadbeef;
+        let at = 0;
+        for (let k = 0; k < count; k++) {
+          // The reference: randomVector, the BigInt path.
+          const v = randomVector(reference, width, hasCin);
+          const start = at;
+          at = randomVectorWords(rng, width, hasCin, words, at);
+          expect(at - start).toBe(2 * n + 1);
+          const chunk = (x: bigint, i: number) => Number((x >> BigInt(32 * i)) & 0xffffffffn);
+          for (let i = 0; i < n; i++) {
+            expect(words[start + i]).toBe(chunk(v.a, i));
+            expect(words[start + n + i]).toBe(chunk(v.b, i));
+          }
+          expect(words[start + 2 * n]).toBe(Number(v.cin));
+          expect(vectorFromWords(words, start, width)).toEqual(v);
+        }
+        expect(words[words.length - 1]).toBe(0xdeadbeef);
+        // Both generators are at the same place in the stream.
+        expect(rng.nextU32()).toBe(reference.nextU32());
+      }),
+      { numRuns: 1500 },
+    );
+  });
+
+  it('cuts the top word at the width: bits past it are never set (widths around 32, 64 and 96)', () => {
+    for (const width of [1, 31, 32, 33, 63, 64, 65, 95, 96, 97]) {
+      const rng = new SeededRandom(width);
+      const n = operandWords(width);
+      const words = new Uint32Array(2 * n + 1);
+      let seen = 0;
+      for (let k = 0; k < 200; k++) {
+        randomVectorWords(rng, width, true, words, 0);
+        const topBits = width - 32 * (n - 1);
+        for (const w of [words[n - 1], words[2 * n - 1]]) {
+          expect(topBits === 32 || w < 2 ** topBits).toBe(true);
+          seen |= w;
+        }
+      }
+      // And every bit below the width is set at least once.
+      expect(seen >>> 0).toBe(width - 32 * (n - 1) === 32 ? 0xffffffff : 2 ** (width - 32 * (n - 1)) - 1);
+    }
   });
 });

@@ -8,19 +8,20 @@
  * cannot run, as JavaScript (32 vectors a word, bitsliced-js.ts). Exhaustive
  * mode enumerates the vector index (order in vectors.ts): the low index bits
  * are constant lane patterns, the others are broadcast from the word number.
- * Random mode packs the seeded stream of `randomVector` into lanes.
+ * Random mode packs the seeded stream of `randomVector`, drawn as 32-bit
+ * words (`randomVectorWords`), into lanes.
  *
  * Every mismatch found is confirmed by `replayCounterexample` (BigInt and the
  * event-driven simulator), which makes the counterexample that is reported.
  */
 import { EngineError } from '../errors';
 import { vectorSpaceBits, type PreparedAdder } from '../pipeline';
-import { SeededRandom } from '../random';
+import { SeededRandom, vectorFromWords } from '../random';
 import { buildAdderProgram, INNER_BITS, NO_HOIST, WORD_SPLIT, type AdderProgram, type CheckKernel, type ScanKernel } from './bitsliced-program';
 import { jsCheckKernel, jsScanKernel } from './bitsliced-js';
 import { wasmCheckKernel, wasmScanKernel } from './bitsliced-wasm';
 import { replayCounterexample, type Counterexample, type VerifyHooks, type VerifyResult } from './result';
-import { LanePacker, MAX_SPACE_BITS, nextRandomVectors, shardRange, vectorAt, type Shard } from './vectors';
+import { LanePacker, MAX_SPACE_BITS, nextRandomWords, shardRange, vectorAt, type Shard } from './vectors';
 
 /** Which code runs: WebAssembly SIMD, JavaScript, or the first of the two that works here. */
 export type Backend = 'auto' | 'wasm' | 'js';
@@ -182,21 +183,25 @@ export function verifyRandom(adder: PreparedAdder, opts: RandomOptions, hooks: V
   const kernel = checkKernelFor(adder, opts.backend ?? 'auto');
   const packer = new LanePacker(adder.ports, kernel.lanes);
   const rng = new SeededRandom(seed);
+  const batchSize = kernel.batchWords * kernel.lanes;
+  // The stream as 32-bit words (no BigInt per vector); a vector is made only for a counterexample.
+  const words = new Uint32Array(Math.min(count, batchSize) * packer.wordsPerVector);
   let done = 0;
   while (done < count) {
     if (hooks.shouldStop?.()) return result('random', done, seed, null, false, t0);
-    const batch = nextRandomVectors(rng, adder.ports, Math.min(count - done, kernel.batchWords * kernel.lanes));
-    const words = packer.pack(batch, kernel.inputs);
-    const found = kernel.check(0, words);
+    const batch = Math.min(count - done, batchSize);
+    nextRandomWords(rng, adder.ports, batch, words);
+    const used = packer.packWords(words, batch, kernel.inputs);
+    const found = kernel.check(0, used);
     if (found >= 0) {
       // Lanes past the batch's last vector hold zeros, not vectors.
-      const lane = firstLane(kernel.diff, found * kernel.lanes, 0, batch.length);
+      const lane = firstLane(kernel.diff, found * kernel.lanes, 0, batch);
       if (lane >= 0) {
         const k = found * kernel.lanes + lane;
-        return result('random', done + k + 1, seed, confirm(adder, batch[k]), true, t0);
+        return result('random', done + k + 1, seed, confirm(adder, vectorFromWords(words, k * packer.wordsPerVector, adder.ports.width)), true, t0);
       }
     }
-    done += batch.length;
+    done += batch;
     hooks.onProgress?.(done, count);
   }
   return result('random', count, seed, null, true, t0);

@@ -12,7 +12,7 @@
  */
 import { EngineError } from '../errors';
 import type { AdderPorts } from '../flat';
-import { randomVector, type SeededRandom, type Vector } from '../random';
+import { operandWords, randomVector, randomVectorWords, type SeededRandom, type Vector } from '../random';
 
 /** Exhaustive spaces are enumerated with exact double-precision indices. */
 export const MAX_SPACE_BITS = 53;
@@ -58,6 +58,8 @@ export function shardRange(total: number, shard: Shard = { index: 0, count: 1 })
 export class LanePacker {
   private readonly cinSlots: number;
   private readonly wordsPerSlot: number;
+  /** packWords' 32 × 32 bit matrix. */
+  private readonly matrix = new Int32Array(32);
 
   constructor(
     private readonly ports: AdderPorts,
@@ -71,34 +73,75 @@ export class LanePacker {
     return this.cinSlots + 2 * this.ports.width;
   }
 
+  /** Words per vector in `packWords`' input (`randomVectorWords`' layout). */
+  get wordsPerVector(): number {
+    return 2 * operandWords(this.ports.width) + 1;
+  }
+
   /**
    * Pack vectors into `out` (cleared first), vector k in word ⌊k / lanes⌋,
    * lane k mod lanes, laid out as `CheckKernel.inputs`. Returns the words used.
    */
   pack(vectors: readonly Vector[], out: Int32Array): number {
-    const words = Math.ceil(vectors.length / this.lanes);
-    out.fill(0, 0, words * this.slots * this.wordsPerSlot);
-    const n = this.ports.width;
-    for (let k = 0; k < vectors.length; k++) {
-      const v = vectors[k];
-      const lane = k % this.lanes;
-      // Slot p of this vector's word, at this lane's 32-bit word.
-      const base = Math.floor(k / this.lanes) * this.slots * this.wordsPerSlot + (lane >> 5);
-      const bit = 1 << (lane & 31);
-      if (this.cinSlots && v.cin & 1n) out[base] |= bit;
-      this.scatter(v.a, n, out, base + this.cinSlots * this.wordsPerSlot, bit);
-      this.scatter(v.b, n, out, base + (this.cinSlots + n) * this.wordsPerSlot, bit);
-    }
-    return words;
+    const n = operandWords(this.ports.width);
+    const words = new Uint32Array(vectors.length * this.wordsPerVector);
+    vectors.forEach((v, k) => {
+      const at = k * this.wordsPerVector;
+      for (let i = 0; i < n; i++) {
+        const shift = BigInt(32 * i);
+        words[at + i] = Number(BigInt.asUintN(32, v.a >> shift));
+        words[at + n + i] = Number(BigInt.asUintN(32, v.b >> shift));
+      }
+      words[at + 2 * n] = Number(v.cin & 1n);
+    });
+    return this.packWords(words, vectors.length, out);
   }
 
-  /** Set `bit` in the slot word of every set bit of the n-bit value x; slot i at out[at + i·wordsPerSlot]. */
-  private scatter(x: bigint, n: number, out: Int32Array, at: number, bit: number): void {
+  /** `pack` for `count` vectors given as words, `randomVectorWords`' layout, one after the other. */
+  packWords(words: Uint32Array, count: number, out: Int32Array): number {
+    const { width } = this.ports;
+    const n = operandWords(width);
+    const stride = 2 * n + 1;
     const step = this.wordsPerSlot;
-    for (let i = 0; i < n; i += 32) {
-      // 32 bits at a time: one small BigInt step per chunk, plain integers inside it.
-      let chunk = Number(BigInt.asUintN(32, i === 0 ? x : x >> BigInt(i)));
-      for (let j = i; chunk !== 0; j++, chunk >>>= 1) if (chunk & 1) out[at + j * step] |= bit;
+    const rows = this.matrix;
+    const used = Math.ceil(count / this.lanes);
+    // 32 lanes at a time: word i of 32 vectors, turned into bits 32i … 32i + 31 of those lanes.
+    for (let group = 0; group < used * step; group++) {
+      const first = group * 32;
+      const have = Math.max(0, Math.min(32, count - first));
+      // Slot p of this group's lanes at out[base + p · step].
+      const base = Math.floor(group / step) * this.slots * step + (group % step);
+      if (this.cinSlots) {
+        let cin = 0;
+        for (let v = 0; v < have; v++) cin |= (words[(first + v) * stride + 2 * n] & 1) << v;
+        out[base] = cin;
+      }
+      for (let i = 0; i < 2 * n; i++) {
+        for (let v = 0; v < 32; v++) rows[v] = v < have ? words[(first + v) * stride + i] : 0;
+        transpose32(rows);
+        // Word i is bits low … of A (i < n) or of B.
+        const low = 32 * (i % n);
+        const slot = this.cinSlots + (i < n ? 0 : width) + low;
+        for (let j = 0, bits = Math.min(32, width - low); j < bits; j++) out[base + (slot + j) * step] = rows[j];
+      }
+    }
+    return used;
+  }
+}
+
+/**
+ * Transposes a 32 × 32 bit matrix in place: bit j of m[i] trades places with
+ * bit i of m[j]. Swaps the off-diagonal blocks of 16, then of 8 within
+ * those, down to single bits (Warren, Hacker's Delight, 2nd ed., §7-3).
+ */
+function transpose32(m: Int32Array): void {
+  for (let size = 16, mask = 0x0000ffff; size > 0; size >>= 1, mask ^= mask << size) {
+    for (let block = 0; block < 32; block += 2 * size) {
+      for (let k = block; k < block + size; k++) {
+        const t = ((m[k] >>> size) ^ m[k + size]) & mask;
+        m[k] ^= t << size;
+        m[k + size] ^= t;
+      }
     }
   }
 }
@@ -107,4 +150,13 @@ export class LanePacker {
 export function nextRandomVectors(rng: SeededRandom, ports: AdderPorts, count: number): Vector[] {
   const hasCin = ports.cin !== null;
   return Array.from({ length: count }, () => randomVector(rng, ports.width, hasCin));
+}
+
+/**
+ * `nextRandomVectors` as words (`randomVectorWords`' layout) in `out`, which
+ * must hold count · (2 · ⌈n / 32⌉ + 1) of them: the same draws, no BigInt.
+ */
+export function nextRandomWords(rng: SeededRandom, ports: AdderPorts, count: number, out: Uint32Array): void {
+  const hasCin = ports.cin !== null;
+  for (let k = 0, at = 0; k < count; k++) at = randomVectorWords(rng, ports.width, hasCin, out, at);
 }
