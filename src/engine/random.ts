@@ -112,28 +112,36 @@ export function randomVector(rng: SeededRandom, width: number, hasCin: boolean):
 export const operandWords = (width: number): number => Math.ceil(width / 32);
 
 /**
- * `randomVector` without BigInt: the same draws in the same order (A's
- * words, most significant first, then B's, then the carry-in's u32 if the
- * design has one), written as unsigned 32-bit words to out[at …]: A least
+ * `randomVector` without BigInt, for `count` vectors (default 1): the same
+ * draws in the same order (A's words, most significant first, then B's,
+ * then the carry-in's u32 if the design has one), written as unsigned
+ * 32-bit words to out[at …], 2 · operandWords(width) + 1 a vector: A least
  * significant word first, its top word cut to the width as `nextBits`
  * truncates, then B likewise, then the carry-in (0 without one). Returns
- * the index after the last word, at + 2 · operandWords(width) + 1.
+ * the index after the last word.
  */
-export function randomVectorWords(rng: SeededRandom, width: number, hasCin: boolean, out: Uint32Array, at: number): number {
+export function randomVectorWords(rng: SeededRandom, width: number, hasCin: boolean, out: Uint32Array, at: number, count = 1): number {
   const n = operandWords(width);
+  const stride = 2 * n + 1;
+  const draws = hasCin ? stride : stride - 1;
   const top = width - 32 * (n - 1);
-  // The draws in stream order, then put in place: each operand turned round and cut to the width.
-  rng.fill(out, at, at + 2 * n + (hasCin ? 1 : 0));
-  for (let operand = at; operand < at + 2 * n; operand += n) {
-    for (let i = operand, j = operand + n - 1; i < j; i++, j--) {
-      const t = out[i];
-      out[i] = out[j];
-      out[j] = t;
+  // Every draw at once, in stream order, at the end of the space the words take (the generator runs fastest so)…
+  let from = at + count * (stride - draws);
+  rng.fill(out, from, from + count * draws);
+  // … then each vector in turn moves down to its place (never past a draw still to be read) and is put right.
+  for (let to = at; to < at + count * stride; to += stride, from += draws) {
+    if (to !== from) for (let i = 0; i < draws; i++) out[to + i] = out[from + i];
+    for (let operand = to; operand < to + 2 * n; operand += n) {
+      for (let i = operand, j = operand + n - 1; i < j; i++, j--) {
+        const t = out[i];
+        out[i] = out[j];
+        out[j] = t;
+      }
+      if (top < 32) out[operand + n - 1] &= (1 << top) - 1;
     }
-    if (top < 32) out[operand + n - 1] &= (1 << top) - 1;
+    out[to + 2 * n] = hasCin ? out[to + 2 * n] & 1 : 0;
   }
-  out[at + 2 * n] = hasCin ? out[at + 2 * n] & 1 : 0;
-  return at + 2 * n + 1;
+  return at + count * stride;
 }
 
 /** The vector of `randomVectorWords`' words at out[at …], as BigInts. */

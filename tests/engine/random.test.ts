@@ -86,6 +86,23 @@ describe('randomVectorWords (randomVector without BigInt)', () => {
     );
   });
 
+  it('gives the same words for count vectors in one call as in count calls', () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 1, max: 128 }), fc.integer({ min: 0, max: 2 ** 32 - 1 }), fc.boolean(), fc.integer({ min: 1, max: 40 }), fc.nat(3), (width, seed, hasCin, count, at) => {
+        const stride = 2 * operandWords(width) + 1;
+        const one = new Uint32Array(at + count * stride + 2).fill(7);
+        const many = one.slice();
+        const a = new SeededRandom(seed);
+        const b = new SeededRandom(seed);
+        for (let k = 0, i = at; k < count; k++) i = randomVectorWords(a, width, hasCin, one, i);
+        expect(randomVectorWords(b, width, hasCin, many, at, count)).toBe(at + count * stride);
+        expect(many).toEqual(one);
+        expect(b.nextU32()).toBe(a.nextU32());
+      }),
+      { numRuns: 500 },
+    );
+  });
+
   it('cuts the top word at the width: bits past it are never set (widths around 32, 64 and 96)', () => {
     for (const width of [1, 31, 32, 33, 63, 64, 65, 95, 96, 97]) {
       const rng = new SeededRandom(width);

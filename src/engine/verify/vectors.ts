@@ -157,6 +157,5 @@ export function nextRandomVectors(rng: SeededRandom, ports: AdderPorts, count: n
  * must hold count · (2 · ⌈n / 32⌉ + 1) of them: the same draws, no BigInt.
  */
 export function nextRandomWords(rng: SeededRandom, ports: AdderPorts, count: number, out: Uint32Array): void {
-  const hasCin = ports.cin !== null;
-  for (let k = 0, at = 0; k < count; k++) at = randomVectorWords(rng, ports.width, hasCin, out, at);
+  randomVectorWords(rng, ports.width, ports.cin !== null, out, 0, count);
 }
