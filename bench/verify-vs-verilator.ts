@@ -10,6 +10,9 @@
  *     find the same first vector of a planted fault.
  * (b) Every vector of the 16-bit carry-skip adder (2^33 vectors) on every
  *     core through parallel-verify, worker start-up included.
+ * (c) Random mode on one core: seeded vectors per second through the 16-
+ *     and 64-bit carry-skip adders (stream generation and lane packing
+ *     included, as `verify --random` runs them).
  *
  * Not a test: nothing here passes or fails on time, but a disagreement
  * between the two checkers fails the run.
@@ -23,7 +26,7 @@ import { plantFault } from '../src/engine/faults';
 import { generateAdder } from '../src/engine/generate';
 import type { Design } from '../src/engine/model';
 import { prepareAdder } from '../src/engine/pipeline';
-import { scanKernelFor, verifyExhaustive, type Backend } from '../src/engine/verify/bitsliced';
+import { scanKernelFor, verifyExhaustive, verifyRandom, type Backend } from '../src/engine/verify/bitsliced';
 import { indexOf } from '../src/engine/verify/vectors';
 import { writeVerilog } from '../src/engine/verilog/write';
 
@@ -116,6 +119,27 @@ export interface VerifyBench {
   targetSpeedup: number;
   fault: { kind: string; block: number; bit: number; firstIndex: number; verilatorFirstIndex: number };
   whole: { design: string; vectors: number; threads: number; wallSeconds: number; targetSeconds: number };
+  random: RandomRun[];
+}
+
+interface RandomRun {
+  design: string;
+  vectors: number;
+  medianMs: number;
+  vectorsPerSecond: number;
+}
+
+/** Random mode, one core: the median of REPEATS runs of `vectors` seeded vectors (after one to warm up). */
+function randomRate(width: number, vectors: number): RandomRun {
+  const adder = prepareAdder(generateAdder({ arch: 'skip', width, block: BLOCK })).adder!;
+  verifyRandom(adder, { count: vectors / 10, seed: 1n });
+  const ms = Array.from({ length: REPEATS }, (_, k) => {
+    const r = verifyRandom(adder, { count: vectors, seed: BigInt(k + 1) });
+    if (!r.equivalent) throw new Error(`random verification found skip${width}_b${BLOCK} not equivalent`);
+    return r.elapsedMs;
+  });
+  const medianMs = median(ms);
+  return { design: `skip${width}_b${BLOCK}`, vectors, medianMs, vectorsPerSecond: vectors / (medianMs / 1000) };
 }
 
 function median(xs: number[]): number {
@@ -162,6 +186,8 @@ export async function benchVerifyVsVerilator(): Promise<VerifyBench> {
   const r = await verifyExhaustiveParallel(undefined, { design: generateAdder({ arch: 'skip', width: WHOLE_WIDTH, block: BLOCK }) }, threads);
   const wallMs = performance.now() - t0;
   if (!r.equivalent || r.vectors !== 2 ** (2 * WHOLE_WIDTH + 1)) throw new Error(`16-bit run: equivalent ${r.equivalent}, ${r.vectors} vectors`);
+  // (c) random mode, one core.
+  const random = [randomRate(16, 4_000_000), randomRate(64, 2_000_000)];
   const best = runs[0];
   const result: VerifyBench = {
     design: design.top,
@@ -172,6 +198,7 @@ export async function benchVerifyVsVerilator(): Promise<VerifyBench> {
     targetSpeedup: 10,
     fault: { ...FAULT, firstIndex: ourFirst, verilatorFirstIndex: verilatorFault.first },
     whole: { design: `skip${WHOLE_WIDTH}_b${BLOCK}`, vectors: r.vectors, threads, wallSeconds: wallMs / 1000, targetSeconds: 20 },
+    random,
   };
   printTable(result);
   return result;
@@ -189,4 +216,5 @@ function printTable(r: VerifyBench): void {
   console.log(`  target: ≥ ${r.targetSpeedup}× Verilator per core; first run incl. kernel compilation: ${r.ours.map((o) => `${o.backend}${o.hoist ? '' : '/no-hoist'} ${o.firstMs.toFixed(1)} ms`).join(', ')}`);
   console.log(`  planted fault (${r.fault.kind}): first mismatch at vector ${r.fault.firstIndex} (Verilator: ${r.fault.verilatorFirstIndex})`);
   console.log(`\nExhaustive equivalence, ${r.whole.design} (${r.whole.vectors} vectors), ${r.whole.threads} threads: ${r.whole.wallSeconds.toFixed(2)} s wall (target < ${r.whole.targetSeconds} s)`);
+  console.log(`\nRandom vectors, one core: ${r.random.map((x) => `${x.design} ${rate(x.vectorsPerSecond)} vectors/s (median of ${REPEATS} runs of ${x.vectors})`).join('; ')}`);
 }
