@@ -168,19 +168,23 @@ export async function simulateVectorFile(
   };
   // The other threads start first and join in when ready; this one starts on the pieces at once.
   const workers = parallel ? Array.from({ length: threads - 1 }, () => new Worker(fileURLToPath(entry), { workerData: work, argv: [] })) : [];
+  let stopped = false;
   const finished = new Promise<void>((resolve, reject) => {
     allDone = resolve;
+    // Once stopped (every piece done, or this thread failed), what the threads do no longer matters.
+    const fail = (e: Error) => !stopped && reject(e);
     for (const worker of workers) {
       worker.on('message', ({ index, result }: { index: number; result: PieceResult }) => take(index, result));
-      worker.once('error', reject);
-      worker.once('exit', (code) => left > 0 && reject(new Error(`simulation thread stopped with code ${code}`)));
+      worker.once('error', fail);
+      worker.once('exit', (code) => left > 0 && fail(new Error(`simulation thread stopped with code ${code}`)));
     }
   });
-  runPieces(work, take);
   try {
+    runPieces(work, take);
     if (left > 0) await finished;
   } finally {
     // A thread still starting when every piece is done has nothing left to do.
+    stopped = true;
     for (const worker of workers) void worker.terminate();
   }
   // The earliest bad line is the one to report, as a sequential read would.
