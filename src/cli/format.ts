@@ -29,8 +29,9 @@ export function* simJsonChunks(stepTexts: Iterable<string | Uint8Array>): Genera
   yield '{"steps":[';
   let first = true;
   for (const text of stepTexts) {
-    if (!first) yield ',';
-    yield text;
+    // A string takes its comma along (one write a step); bytes are not copied for one.
+    if (typeof text === 'string') yield (first ? '' : ',') + text;
+    else yield* first ? [text] : [',', text];
     first = false;
   }
   yield ']}';

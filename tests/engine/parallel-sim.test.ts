@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { simulateVectorFile, splitVectorText } from '../../src/cli/parallel-sim';
-import { stepJson, StepJsonWriter } from '../../src/cli/format';
+import { simJsonChunks, stepJson, StepJsonWriter } from '../../src/cli/format';
 import { runVectors } from '../../src/engine/adder';
 import { generateAdder } from '../../src/engine/generate';
 import { prepareAdder } from '../../src/engine/pipeline';
@@ -83,5 +83,15 @@ describe('simulateVectorFile on one thread (numbers up to 53 bits, BigInt above)
       expect(json.json.map((bytes) => new TextDecoder().decode(bytes)).join(',')).toBe(expected.map(stepJson).join(','));
       expect((await simulateVectorFile('main.ts', { ...request, form: 'steps' })).steps).toEqual(expected);
     }
+  });
+});
+
+describe('simJsonChunks', () => {
+  it('joins step texts and byte chunks with commas inside the document', () => {
+    const bytes = (s: string) => new TextEncoder().encode(s);
+    const text = (chunks: Iterable<string | Uint8Array>) => [...simJsonChunks(chunks)].map((c) => (typeof c === 'string' ? c : new TextDecoder().decode(c))).join('');
+    expect(text([])).toBe('{"steps":[]}');
+    expect(text([bytes('{"x":1},{"x":2}'), '{"x":3}', bytes('{"x":4}')])).toBe('{"steps":[{"x":1},{"x":2},{"x":3},{"x":4}]}');
+    expect(text(['{"x":1}', '{"x":2}'])).toBe('{"steps":[{"x":1},{"x":2}]}');
   });
 });
