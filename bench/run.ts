@@ -20,7 +20,7 @@ const results = {
   node: process.version,
   simVsVvp: benchSimVsVvp(),
   verifyVsVerilator: await benchVerifyVsVerilator(),
-  proveVsYosys: benchProveVsYosys(),
+  proveVsYosys: await benchProveVsYosys(),
   timingSearch: benchTimingSearch(),
 };
 const out = join(import.meta.dirname, 'results.json');

@@ -88,9 +88,9 @@ function seedOf(seed: string): bigint {
 }
 
 /** Engine errors (bad input) become a failure answer; anything else is a bug and is thrown as is. */
-function answer<T>(work: () => T): EngineOutcome<T> {
+async function answer<T>(work: () => T | Promise<T>): Promise<EngineOutcome<T>> {
   try {
-    return { ok: true, value: work() };
+    return { ok: true, value: await work() };
   } catch (e) {
     if (e instanceof EngineError) return { ok: false, code: e.code, message: e.message };
     throw e;
@@ -99,11 +99,11 @@ function answer<T>(work: () => T): EngineOutcome<T> {
 
 export const engineApi = {
   /** Bits of the vector space (2^bits vectors), so the page can cut it into shards. */
-  spaceBits(source: EngineSource): EngineOutcome<number> {
+  spaceBits(source: EngineSource): Promise<EngineOutcome<number>> {
     return answer(() => vectorSpaceBits(adderOf(source).ports));
   },
 
-  verify(source: EngineSource, request: VerifyRequest, onProgress?: ProgressCallback): EngineOutcome<VerifyResult> {
+  verify(source: EngineSource, request: VerifyRequest, onProgress?: ProgressCallback): Promise<EngineOutcome<VerifyResult>> {
     const hooks = { onProgress: throttleProgress(onProgress) };
     return answer(() => {
       const adder = adderOf(source);
@@ -119,7 +119,7 @@ export const engineApi = {
   },
 
   /** The slowest-vector search (inertial delays) with a guided budget of `count` pairs. */
-  timing(source: EngineSource, request: TimingRequest, onProgress?: ProgressCallback): EngineOutcome<TimingReport> {
+  timing(source: EngineSource, request: TimingRequest, onProgress?: ProgressCallback): Promise<EngineOutcome<TimingReport>> {
     const hooks = { onProgress: throttleProgress(onProgress) };
     return answer(() => searchSlowest(adderOf(source), { mode: 'random', count: request.count, seed: seedOf(request.seed) }, 'inertial', hooks));
   },

@@ -19,45 +19,46 @@ import { engineApi, throttleProgress, type EngineOutcome } from '../../workers/e
 const faulty = plantFault(generateAdder({ arch: 'skip', width: 6, block: 3, name: 'skip6' }), { kind: 'skip-select-drops-propagate', block: 0, bit: 1 });
 const source = { text: writeVerilog(faulty), fileName: 'skip6.v' };
 
-function value<T>(answer: EngineOutcome<T>): T {
+async function value<T>(pending: Promise<EngineOutcome<T>>): Promise<T> {
+  const answer = await pending;
   if (!answer.ok) throw new Error(`expected an answer, got ${answer.code}: ${answer.message}`);
   return answer.value;
 }
 
 describe('engine worker API', () => {
-  it('cuts the space into shards that merge to what one thread finds, BigInt values surviving the structured clone', () => {
+  it('cuts the space into shards that merge to what one thread finds, BigInt values surviving the structured clone', async () => {
     const one = verifyExhaustive(prepareAdder(faulty).adder!);
     expect(one.counterexample).not.toBeNull();
-    const bits = value(engineApi.spaceBits(source));
+    const bits = await value(engineApi.spaceBits(source));
     expect(bits).toBe(13);
     const count = 3;
-    const shards = Array.from({ length: count }, (_, index) =>
-      structuredClone(value(engineApi.verify(source, { mode: 'exhaustive', shard: { index, count } }))),
+    const shards = await Promise.all(
+      Array.from({ length: count }, async (_, index) => structuredClone(await value(engineApi.verify(source, { mode: 'exhaustive', shard: { index, count } })))),
     );
     const merged = mergeShardResults(shards, 0);
     expect({ ...merged, elapsedMs: 0 }).toEqual({ ...one, elapsedMs: 0 });
     expect(typeof merged.counterexample!.a).toBe('bigint');
   });
 
-  it('answers random and proof runs and the slowest-vector search', () => {
-    const random = value(engineApi.verify(source, { mode: 'random', count: 5000, seed: '7' }));
+  it('answers random and proof runs and the slowest-vector search', async () => {
+    const random = await value(engineApi.verify(source, { mode: 'random', count: 5000, seed: '7' }));
     expect(random).toMatchObject({ mode: 'random', seed: 7n });
-    const proof = value(
+    const proof = await value(
       engineApi.verify({ text: writeVerilog(generateAdder({ arch: 'skip', width: 8, block: 4 })), fileName: 'ok.v' }, { mode: 'proof', method: 'auto' }),
     );
     expect(proof).toMatchObject({ equivalent: true, complete: true, mode: 'proof' });
-    const timing = value(engineApi.timing(source, { count: 500, seed: '1' }));
+    const timing = await value(engineApi.timing(source, { count: 500, seed: '1' }));
     expect(timing.pairs).toBe(500);
     expect(timing.worst!.delay).toBeLessThanOrEqual(timing.topological.delay);
   });
 
-  it('answers bad input with a message that says what to fix, not a throw', () => {
+  it('answers bad input with a message that says what to fix, not a throw', async () => {
     const broken = 'module add(a, b, s); input [1:0] a, b; output [1:0] s; assign s[0] = a[0] ^ b[0]; endmodule';
-    const lint = engineApi.verify({ text: broken, fileName: 'add.v' }, { mode: 'proof', method: 'auto' });
+    const lint = await engineApi.verify({ text: broken, fileName: 'add.v' }, { mode: 'proof', method: 'auto' });
     expect(lint).toMatchObject({ ok: false, code: 'lint' });
     expect(!lint.ok && lint.message).toMatch(/^add\.v has \d+ lint errors? \(first: .+\); fix .+ and add a new revision/);
-    expect(engineApi.spaceBits({ text: 'module (', fileName: 'bad.v' })).toMatchObject({ ok: false, code: 'parse' });
-    const seed = engineApi.timing(source, { count: 10, seed: '-1' });
+    expect(await engineApi.spaceBits({ text: 'module (', fileName: 'bad.v' })).toMatchObject({ ok: false, code: 'parse' });
+    const seed = await engineApi.timing(source, { count: 10, seed: '-1' });
     expect(seed).toMatchObject({ ok: false, code: 'bad-option' });
     expect(!seed.ok && seed.message).toMatch(/seed '-1': .*whole number/);
   });

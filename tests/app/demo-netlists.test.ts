@@ -21,14 +21,14 @@ describe('demo netlists', () => {
   });
 
   for (const n of DEMO_NETLISTS) {
-    it(`${n.name}: reads back, lints clean and ${n.fault ? 'fails' : 'passes'} the proof`, () => {
+    it(`${n.name}: reads back, lints clean and ${n.fault ? 'fails' : 'passes'} the proof`, async () => {
       const prepared = prepareAdder(parseVerilog(n.content(), n.filename));
       expect(prepared.lint.errors).toEqual([]);
       expect(prepared.lint.warnings).toEqual([]);
       const adder = prepared.adder!;
       expect(adder.ports.width).toBe(n.width);
       // The proof covers every A, B and carry-in; its counterexample is checked against BigInt here.
-      const proof = proveAdder(adder);
+      const proof = await proveAdder(adder);
       expect(proof.complete).toBe(true);
       expect(proof.equivalent).toBe(!n.fault);
       if (n.fault) {

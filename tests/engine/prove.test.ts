@@ -106,11 +106,11 @@ const SMALL: GenerateOptions[] = [
 const label = (o: GenerateOptions): string => `${o.arch} ${o.width}${o.blocks ? ` blocks ${o.blocks.join(',')}` : o.block ? ` block ${o.block}` : ''}`;
 
 describe('proof agrees with the exhaustive BigInt check on generated adders', () => {
-  it.each(SMALL.map((o) => [label(o), o] as const))('%s', (_, opts) => {
+  it.each(SMALL.map((o) => [label(o), o] as const))('%s', async (_, opts) => {
     const adder = prepare(generateAdder(opts));
     expect(exhaustiveMismatches(adder).size).toBe(0);
     for (const method of METHODS) {
-      const r = proveAdder(adder, { method });
+      const r = await proveAdder(adder, { method });
       expectProofShape(r, method);
       expect(r.equivalent).toBe(true);
       expect(r.counterexample).toBeNull();
@@ -130,12 +130,12 @@ describe('planted faults (src/engine/faults.ts) are found by both methods', () =
     ['ripple 6: carry-out for all ones + cin', ripple6, { kind: 'carry-out-all-ones-cin' }],
   ];
 
-  it.each(cases)('%s', (_, design, fault) => {
+  it.each(cases)('%s', async (_, design, fault) => {
     const adder = prepare(plantFault(design, fault));
     const bad = exhaustiveMismatches(adder);
     expect(bad.size).toBeGreaterThan(0);
     for (const method of METHODS) {
-      const r = proveAdder(adder, { method });
+      const r = await proveAdder(adder, { method });
       expectProofShape(r, method);
       expect(r.equivalent).toBe(false);
       const cx = expectRealMismatch(adder, r.counterexample);
@@ -153,10 +153,10 @@ describe('wide adders', () => {
     { arch: 'skip', width: 128, block: 4 },
     { arch: 'skip', width: 128, blocks: [3, 5, 7, 9, 11, 13, 15, 17, 19, 29] },
   ];
-  it.each(wide.map((o) => [label(o), o] as const))('%s proves equivalent by both methods', (_, opts) => {
+  it.each(wide.map((o) => [label(o), o] as const))('%s proves equivalent by both methods', async (_, opts) => {
     const adder = prepare(generateAdder(opts));
     for (const method of METHODS) {
-      const r = proveAdder(adder, { method });
+      const r = await proveAdder(adder, { method });
       expectProofShape(r, method);
       expect(r.equivalent).toBe(true);
     }
@@ -166,25 +166,25 @@ describe('wide adders', () => {
   const a = 0x0123456789abcdef_fedcba9876543210n;
   const b = 0x00ff00ff00ff00ff_f0f0f0f0f0f0f0f0n;
   const skip128 = generateAdder({ arch: 'skip', width: 128, block: 4 });
-  it.each(METHODS)('a 128-bit skip adder with sum bit 77 wrong for one pair (%s)', (method) => {
+  it.each(METHODS)('a 128-bit skip adder with sum bit 77 wrong for one pair (%s)', async (method) => {
     const adder = prepare(plantFault(skip128, { kind: 'sum-bit-for-one-pair', bit: 77, a, b }));
-    const r = proveAdder(adder, { method });
+    const r = await proveAdder(adder, { method });
     expect(r.equivalent).toBe(false);
     const cx = expectRealMismatch(adder, r.counterexample);
     expect([cx.a, cx.b, cx.bits]).toEqual([a, b, [77]]);
   });
 
-  it.each(METHODS)('a 64-bit skip adder whose carry-out fails only for all ones + cin (%s)', (method) => {
+  it.each(METHODS)('a 64-bit skip adder whose carry-out fails only for all ones + cin (%s)', async (method) => {
     const adder = prepare(plantFault(generateAdder({ arch: 'skip', width: 64, block: 4 }), { kind: 'carry-out-all-ones-cin' }));
-    const r = proveAdder(adder, { method });
+    const r = await proveAdder(adder, { method });
     const cx = expectRealMismatch(adder, r.counterexample);
     const ones = (1n << 64n) - 1n;
     expect([cx.a, cx.b, cx.cin, cx.bits]).toEqual([ones, ones, 1n, [64]]);
   });
 
-  it.each(METHODS)('a 64-bit skip adder whose block 9 skips on a missing propagate bit (%s)', (method) => {
+  it.each(METHODS)('a 64-bit skip adder whose block 9 skips on a missing propagate bit (%s)', async (method) => {
     const adder = prepare(plantFault(generateAdder({ arch: 'skip', width: 64, block: 4 }), { kind: 'skip-select-drops-propagate', block: 9, bit: 3 }));
-    const r = proveAdder(adder, { method });
+    const r = await proveAdder(adder, { method });
     expect(r.equivalent).toBe(false);
     const cx = expectRealMismatch(adder, r.counterexample);
     // Bits 36..39 form block 9: a wrong skip needs bit 39 to kill or generate (a39 = b39) while 36..38 propagate.
@@ -196,32 +196,32 @@ describe('wide adders', () => {
 describe('node bound and fallback', () => {
   const skip16 = generateAdder({ arch: 'skip', width: 16, block: 4 });
 
-  it('auto falls back to SAT when the diagram passes the node bound', () => {
+  it('auto falls back to SAT when the diagram passes the node bound', async () => {
     const adder = prepare(skip16);
     expect(() => bddMiter(adder, 50)).toThrow(BddLimitError);
-    const r = proveAdder(adder, { method: 'auto', nodeLimit: 50 });
+    const r = await proveAdder(adder, { method: 'auto', nodeLimit: 50 });
     expect(r.method).toBe('sat');
     expect(r.equivalent).toBe(true);
     expect(r.complete).toBe(true);
   });
 
-  it('auto uses the BDD when it fits, and the fallback still finds a planted fault', () => {
-    expect(proveAdder(prepare(skip16)).method).toBe('bdd');
+  it('auto uses the BDD when it fits, and the fallback still finds a planted fault', async () => {
+    expect((await proveAdder(prepare(skip16))).method).toBe('bdd');
     const faulty = prepare(plantFault(skip16, { kind: 'skip-select-drops-propagate', block: 2, bit: 1 }));
-    const r = proveAdder(faulty, { nodeLimit: 50 });
+    const r = await proveAdder(faulty, { nodeLimit: 50 });
     expect(r.method).toBe('sat');
     expectRealMismatch(faulty, r.counterexample);
   });
 
-  it('method bdd past the bound is an EngineError that says what to do', () => {
+  it('method bdd past the bound is an EngineError that says what to do', async () => {
     const adder = prepare(skip16);
-    expect(() => proveAdder(adder, { method: 'bdd', nodeLimit: 50 })).toThrow(/more than 50 nodes: raise the node limit or use method 'sat' or 'auto'/);
+    await expect(proveAdder(adder, { method: 'bdd', nodeLimit: 50 })).rejects.toThrow(/more than 50 nodes: raise the node limit or use method 'sat' or 'auto'/);
   });
 
-  it('rejects a bad method or node limit', () => {
+  it('rejects a bad method or node limit', async () => {
     const adder = prepare(skip16);
-    expect(() => proveAdder(adder, { method: 'magic' as never })).toThrow(EngineError);
-    expect(() => proveAdder(adder, { nodeLimit: 1.5 })).toThrow(/node limit 1.5 is not a whole number/);
+    await expect(proveAdder(adder, { method: 'magic' as never })).rejects.toThrow(EngineError);
+    await expect(proveAdder(adder, { nodeLimit: 1.5 })).rejects.toThrow(/node limit 1.5 is not a whole number/);
   });
 });
 
@@ -229,9 +229,9 @@ describe('hooks', () => {
   const adder = prepare(generateAdder({ arch: 'skip', width: 32, block: 4 }));
   const cells = adder.compiled.cellCount;
 
-  it.each(METHODS)('%s: progress counts up to its total', (method) => {
+  it.each(METHODS)('%s: progress counts up to its total', async (method) => {
     const seen: [number, number][] = [];
-    const r = proveAdder(adder, { method }, { onProgress: (done, total) => seen.push([done, total]) });
+    const r = await proveAdder(adder, { method }, { onProgress: (done, total) => seen.push([done, total]) });
     expect(r.equivalent).toBe(true);
     expect(seen.length).toBeGreaterThan(2);
     const total = seen[0][1];
@@ -241,10 +241,10 @@ describe('hooks', () => {
     expect(seen.at(-1)).toEqual([total, total]);
   });
 
-  it.each(METHODS)('%s: a stopped proof is incomplete and never says equivalent', (method) => {
+  it.each(METHODS)('%s: a stopped proof is incomplete and never says equivalent', async (method) => {
     let calls = 0;
     // Stop at the second check, once some cells are done.
-    const r = proveAdder(adder, { method }, { shouldStop: () => ++calls >= 2 });
+    const r = await proveAdder(adder, { method }, { shouldStop: () => ++calls >= 2 });
     expect(calls).toBe(2);
     expect(r).toMatchObject({ equivalent: false, complete: false, counterexample: null, mode: 'proof', method });
   });
@@ -272,7 +272,7 @@ endmodule
 `;
 
 describe('expression cells and a design without carry-in or carry-out', () => {
-  it('proves the correct one and finds the slip in the wrong one (both methods, exhaustive oracle)', () => {
+  it('proves the correct one and finds the slip in the wrong one (both methods, exhaustive oracle)', async () => {
     const good = prepare(parseVerilog(CLA4));
     expect(good.ports.cin).toBeNull();
     expect(good.ports.cout).toBeNull();
@@ -285,8 +285,8 @@ describe('expression cells and a design without carry-in or carry-out', () => {
     const mismatches = exhaustiveMismatches(bad);
     expect(mismatches.size).toBeGreaterThan(0);
     for (const method of METHODS) {
-      expect(proveAdder(good, { method }).equivalent).toBe(true);
-      const r = proveAdder(bad, { method });
+      expect((await proveAdder(good, { method })).equivalent).toBe(true);
+      const r = await proveAdder(bad, { method });
       expect(r.equivalent).toBe(false);
       const cx = expectRealMismatch(bad, r.counterexample);
       expect(cx.cin).toBe(0n);

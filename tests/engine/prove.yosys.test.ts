@@ -30,12 +30,12 @@ function isMismatch(adder: PreparedAdder, v: Vector): boolean {
 }
 
 /** Yosys must give `verdict`, and both our methods Yosys's verdict. */
-function expectSameVerdict(design: Design, verdict: boolean): void {
+async function expectSameVerdict(design: Design, verdict: boolean): Promise<void> {
   const adder = prepare(design);
   const theirs = yosysProve(design);
   expect(theirs.equivalent, 'yosys').toBe(verdict);
   for (const method of ['bdd', 'sat'] as const) {
-    const ours = proveAdder(adder, { method });
+    const ours = await proveAdder(adder, { method });
     expect(ours.equivalent, `${method} vs yosys`).toBe(theirs.equivalent);
     if (ours.counterexample) expect(isMismatch(adder, ours.counterexample)).toBe(true);
   }
@@ -64,11 +64,11 @@ const FAULTY: [string, GenerateOptions, Fault][] = [
 ];
 
 describe.skipIf(!yosys)('proof verdicts equal Yosys sat -prove on the written Verilog', () => {
-  it.each(GOOD.map((o) => [label(o), o] as const))('correct %s: both say equivalent', (_, opts) => {
-    expectSameVerdict(generateAdder(opts), true);
+  it.each(GOOD.map((o) => [label(o), o] as const))('correct %s: both say equivalent', async (_, opts) => {
+    await expectSameVerdict(generateAdder(opts), true);
   });
 
-  it.each(FAULTY)('%s: both say not equivalent', (_, opts, fault) => {
-    expectSameVerdict(plantFault(generateAdder(opts), fault), false);
+  it.each(FAULTY)('%s: both say not equivalent', async (_, opts, fault) => {
+    await expectSameVerdict(plantFault(generateAdder(opts), fault), false);
   });
 });

@@ -40,14 +40,14 @@ function expectBigIntMismatch(adder: PreparedAdder, cx: Counterexample | null): 
   expect(new AdderHarness(adder.compiled, adder.ports).settle({ a, b, cin })).toBe(actual);
 }
 
-function allModes(adder: PreparedAdder): VerifyResult[] {
-  return [verifyExhaustive(adder), proveAdder(adder, { method: 'bdd' }), proveAdder(adder, { method: 'sat' })];
+async function allModes(adder: PreparedAdder): Promise<VerifyResult[]> {
+  return [verifyExhaustive(adder), await proveAdder(adder, { method: 'bdd' }), await proveAdder(adder, { method: 'sat' })];
 }
 
 describe('exhaustive, BDD proof and SAT proof agree on every generated adder up to 10 bits', () => {
-  it.each(designs.map((o) => [label(o), o] as const))('%s', (_, opts) => {
+  it.each(designs.map((o) => [label(o), o] as const))('%s', async (_, opts) => {
     const adder = prepare(generateAdder(opts));
-    for (const r of allModes(adder)) {
+    for (const r of await allModes(adder)) {
       expect(r.complete).toBe(true);
       expect(r.equivalent, r.mode + (r.method ?? '')).toBe(true);
     }
@@ -76,9 +76,9 @@ describe('every mode catches the planted faults', () => {
     faulty.push([`ripple ${width}: carry-out for all ones + cin`, ripple, { kind: 'carry-out-all-ones-cin' }]);
   }
 
-  it.each(faulty)('%s', (_, design, fault) => {
+  it.each(faulty)('%s', async (_, design, fault) => {
     const adder = prepare(plantFault(design, fault));
-    const [exhaustive, ...proofs] = allModes(adder);
+    const [exhaustive, ...proofs] = await allModes(adder);
     for (const r of [exhaustive, ...proofs]) {
       expect(r.equivalent).toBe(false);
       expect(r.complete).toBe(true);

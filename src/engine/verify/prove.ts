@@ -46,7 +46,8 @@ export type ProofOutcome =
 /** Cells between two progress reports and stop checks. */
 const PROGRESS_EVERY = 64;
 
-export function proveAdder(adder: PreparedAdder, opts: ProveOptions = {}, hooks: VerifyHooks = {}): VerifyResult {
+/** Asynchronous because the SAT solver is loaded on first use (sat.ts). */
+export async function proveAdder(adder: PreparedAdder, opts: ProveOptions = {}, hooks: VerifyHooks = {}): Promise<VerifyResult> {
   const start = performance.now();
   const method = opts.method ?? 'auto';
   if (method !== 'auto' && method !== 'bdd' && method !== 'sat') {
@@ -69,10 +70,10 @@ export function proveAdder(adder: PreparedAdder, opts: ProveOptions = {}, hooks:
         throw new EngineError('proof-node-limit', `the BDD proof needs more than ${nodeLimit} nodes: raise the node limit or use method 'sat' or 'auto'`);
       }
       used = 'sat';
-      outcome = satMiter(adder, hooks);
+      outcome = await satMiter(adder, hooks);
     }
   } else {
-    outcome = satMiter(adder, hooks);
+    outcome = await satMiter(adder, hooks);
   }
   return toResult(adder, outcome, used, start);
 }

@@ -8,10 +8,10 @@
  *
  * Solver: logic-solver (MiniSat compiled to JavaScript; no Node APIs, so
  * it also runs in a browser worker). MiniSat cannot be interrupted, so
- * cancellation is checked while encoding and before the solve.
+ * cancellation is checked while encoding and before the solve. The module
+ * takes about 150 ms to load, so it is imported on the first SAT proof
+ * only: every other command and worker starts without it.
  */
-// @ts-expect-error -- logic-solver ships no type declarations; the part used is typed by LogicModule below.
-import LogicUntyped from 'logic-solver';
 import { K_AND, K_EXPR, K_NAND, K_NOR, K_OR, K_XNOR, OP_AND, OP_C1, OP_IN, OP_MUX, OP_NOT, OP_OR, OP_XOR, type CompiledNetlist } from '../compile';
 import type { PreparedAdder } from '../pipeline';
 import type { ProofOutcome } from './prove';
@@ -32,7 +32,13 @@ interface LogicModule {
   NUM_FALSE: number;
   NUM_TRUE: number;
 }
-const Logic = LogicUntyped as LogicModule;
+let solverModule: Promise<LogicModule> | null = null;
+
+function loadSolver(): Promise<LogicModule> {
+  // @ts-expect-error -- logic-solver ships no type declarations; the part used is typed by LogicModule above.
+  solverModule ??= import('logic-solver').then((m: { default?: unknown }) => (m.default ?? m) as LogicModule);
+  return solverModule;
+}
 
 /** Cells between two progress reports and stop checks. */
 const PROGRESS_EVERY = 64;
@@ -43,17 +49,23 @@ const PROGRESS_EVERY = 64;
  * literal of its output, so inverters and buffers cost nothing.
  */
 class Cnf {
-  readonly solver = new Logic.Solver();
-  readonly F = Logic.NUM_FALSE;
-  readonly T = Logic.NUM_TRUE;
+  readonly solver: LogicSolver;
+  readonly F: number;
+  readonly T: number;
   private fresh = 0;
+
+  constructor(private readonly logic: LogicModule) {
+    this.solver = new logic.Solver();
+    this.F = logic.NUM_FALSE;
+    this.T = logic.NUM_TRUE;
+  }
 
   newVar(): number {
     return this.solver.getVarNum(`v${this.fresh++}`);
   }
 
   clause(...lits: number[]): void {
-    this.solver.require(Logic.or(...lits));
+    this.solver.require(this.logic.or(...lits));
   }
 
   /** o ↔ x1 ∧ … ∧ xm. */
@@ -107,14 +119,15 @@ class Cnf {
 }
 
 /** The SAT miter of the netlist against A + B + cin; see the file comment. */
-export function satMiter(adder: PreparedAdder, hooks: VerifyHooks = {}): ProofOutcome {
+export async function satMiter(adder: PreparedAdder, hooks: VerifyHooks = {}): Promise<ProofOutcome> {
+  const logic = await loadSolver();
   // The solver's argument checks cost more than the solve on adders; our literals are well formed.
-  return Logic.disablingAssertions(() => encodeAndSolve(adder, hooks));
+  return logic.disablingAssertions(() => encodeAndSolve(logic, adder, hooks));
 }
 
-function encodeAndSolve(adder: PreparedAdder, hooks: VerifyHooks): ProofOutcome {
+function encodeAndSolve(logic: LogicModule, adder: PreparedAdder, hooks: VerifyHooks): ProofOutcome {
   const { compiled: c, ports } = adder;
-  const cnf = new Cnf();
+  const cnf = new Cnf(logic);
   // Literal of each net; inputs other than A, B, carry-in and undriven nets are 0, as in the simulator.
   const lit = new Int32Array(c.netCount).fill(cnf.F);
   if (c.const1 >= 0) lit[c.const1] = cnf.T;
