@@ -92,6 +92,7 @@ function RunControls({
   const [values, setValues] = useState<RunFormValues>({
     check: 'equivalence',
     mode: everyVectorFits ? 'exhaustive' : 'proof',
+    method: 'auto',
     vectors: DEFAULT_RANDOM_VECTORS,
     pairs: DEFAULT_TIMING_PAIRS,
     seed: DEFAULT_SEED,
@@ -129,10 +130,19 @@ function RunControls({
               every vector ({everyVectorFits ? '' : 'too many: '}2^{spaceBits} vectors)
             </option>
             <option value="random">random vectors</option>
-            <option value="proof">proof (BDD, then SAT)</option>
+            <option value="proof">proof</option>
           </select>
         </Field>
       )}
+      {!timing && values.mode === 'proof' ? (
+        <Field label="Method">
+          <select className="field" value={values.method} disabled={running} onChange={(e) => set({ method: e.target.value as RunFormValues['method'] })}>
+            <option value="auto">decision diagram, SAT if it grows too large</option>
+            <option value="bdd">decision diagram only</option>
+            <option value="sat">SAT solver only</option>
+          </select>
+        </Field>
+      ) : null}
       {!timing && values.mode === 'random' ? (
         <Field label="Vectors to try" error={{ message: errors.vectors }}>
           <input className="field mono" inputMode="numeric" value={values.vectors} disabled={running} onChange={(e) => set({ vectors: e.target.value })} />

@@ -7,6 +7,7 @@
  */
 import * as Comlink from 'comlink';
 import type { TimingReport } from '../engine/slowest';
+import type { ProofMethod } from '../engine/verify/prove';
 import type { VerifyResult } from '../engine/verify/result';
 import { mergeShardResults, shardCount } from '../engine/verify/shards';
 import type { EngineApi, EngineFailure, EngineOutcome, EngineSource, ProgressCallback, VerifyRequest } from '../../workers/engine.worker';
@@ -18,7 +19,7 @@ export const MAX_WORKERS = 4;
 export type BrowserRunRequest =
   | { check: 'equivalence'; mode: 'exhaustive' }
   | { check: 'equivalence'; mode: 'random'; count: number; seed: string }
-  | { check: 'equivalence'; mode: 'proof' }
+  | { check: 'equivalence'; mode: 'proof'; method: ProofMethod }
   | { check: 'slowest-vector'; count: number; seed: string };
 
 /** What a run counts while it goes: vectors, proof cells or vector pairs. */
@@ -159,7 +160,7 @@ export function startBrowserRun(pool: EnginePool, source: EngineSource, request:
     }
     const one: VerifyRequest | null =
       request.mode === 'proof'
-        ? { mode: 'proof', method: 'auto' }
+        ? { mode: 'proof', method: request.method }
         : request.mode === 'random'
           ? { mode: 'random', count: request.count, seed: request.seed }
           : null;

@@ -7,6 +7,7 @@
 import { useCallback, useEffect, useRef, useState } from 'react';
 import { z } from 'zod';
 import { seedText } from '../lib/rules';
+import type { ProofMethod } from '../engine/verify/prove';
 import type { EngineSource } from '../../workers/engine.worker';
 import { enginePool, progressUnit, startBrowserRun, type BrowserRunRequest, type ProgressUnit, type RunHandle, type RunOutcome } from './engine-client';
 
@@ -24,6 +25,8 @@ export type EquivalenceMode = 'exhaustive' | 'random' | 'proof';
 export interface RunFormValues {
   check: 'equivalence' | 'slowest-vector';
   mode: EquivalenceMode;
+  /** Proofs: the decision diagram with the SAT fallback, or one method alone (to cross-check). */
+  method: ProofMethod;
   vectors: string;
   pairs: string;
   seed: string;
@@ -46,7 +49,7 @@ const timingPairs = countOf('pair', MAX_TIMING_PAIRS);
 /** The request the form's values ask for, or what to fix in which field. */
 export function requestFromForm(v: RunFormValues): { request: BrowserRunRequest } | { errors: RunFormErrors } {
   const seeded = v.check === 'slowest-vector' || v.mode === 'random';
-  if (!seeded) return { request: { check: 'equivalence', mode: v.mode as 'exhaustive' | 'proof' } };
+  if (!seeded) return { request: v.mode === 'proof' ? { check: 'equivalence', mode: 'proof', method: v.method } : { check: 'equivalence', mode: 'exhaustive' } };
   const count = v.check === 'slowest-vector' ? timingPairs.safeParse(v.pairs) : randomVectors.safeParse(v.vectors);
   const seed = seedText.safeParse(v.seed);
   if (!count.success || !seed.success) {

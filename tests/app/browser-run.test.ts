@@ -81,7 +81,7 @@ describe('engine worker API', () => {
 describe('page side', () => {
   it('sums progress over shards and names what a run counts', () => {
     expect(sumShardProgress([10, 0, 32])).toBe(42);
-    expect(progressUnit({ check: 'equivalence', mode: 'proof' })).toBe('cell');
+    expect(progressUnit({ check: 'equivalence', mode: 'proof', method: 'auto' })).toBe('cell');
     expect(progressUnit({ check: 'slowest-vector', count: 1, seed: '1' })).toBe('pair');
     expect(progressUnit({ check: 'equivalence', mode: 'exhaustive' })).toBe('vector');
   });
@@ -95,6 +95,7 @@ describe('page side', () => {
   const form = (patch: Partial<RunFormValues>): RunFormValues => ({
     check: 'equivalence',
     mode: 'exhaustive',
+    method: 'auto',
     vectors: '1000',
     pairs: '100',
     seed: '1',
@@ -104,7 +105,8 @@ describe('page side', () => {
   it('turns the form into a request', () => {
     expect(requestFromForm(form({}))).toEqual({ request: { check: 'equivalence', mode: 'exhaustive' } });
     // Count and seed matter only where asked for.
-    expect(requestFromForm(form({ mode: 'proof', vectors: 'x', seed: 'y' }))).toEqual({ request: { check: 'equivalence', mode: 'proof' } });
+    expect(requestFromForm(form({ mode: 'proof', vectors: 'x', seed: 'y' }))).toEqual({ request: { check: 'equivalence', mode: 'proof', method: 'auto' } });
+    expect(requestFromForm(form({ mode: 'proof', method: 'sat' }))).toEqual({ request: { check: 'equivalence', mode: 'proof', method: 'sat' } });
     expect(requestFromForm(form({ mode: 'random', vectors: '1,000,000', seed: ' 42 ' }))).toEqual({
       request: { check: 'equivalence', mode: 'random', count: 1_000_000, seed: '42' },
     });
