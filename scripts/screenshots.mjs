@@ -24,10 +24,10 @@ for (const theme of ['light', 'dark']) {
   await page.getByRole('link', { name: /Heron Bay/ }).waitFor();
   await page.screenshot({ path: `${out}/${theme}-projects.png` });
   await page.getByRole('link', { name: /Heron Bay/ }).click();
-  await page.getByRole('link', { name: 'acc-skip-8' }).waitFor();
+  await page.getByRole('link', { name: 'acc-skip-16' }).waitFor();
   await page.waitForTimeout(300);
   await page.screenshot({ path: `${out}/${theme}-project.png`, fullPage: true });
-  await page.getByRole('link', { name: 'acc-skip-8' }).click();
+  await page.getByRole('link', { name: 'acc-skip-16' }).click();
   await page.getByText('Runs of r1').waitFor();
   await page.waitForTimeout(300);
   await page.screenshot({ path: `${out}/${theme}-netlist.png` });
