@@ -76,11 +76,16 @@ function options(args: CliArgs): { map?: PortMap; delayTable?: DelayTable } {
 
 const lintJson = (r: LintResult) => ({ errors: r.errors, warnings: r.warnings });
 
-/** Prepare an adder for simulation, or fail the design with its lint report. */
-function prepare(args: CliArgs): { adder: PreparedAdder; lint: LintResult } {
-  const prepared = prepareAdder(loadDesign(args), options(args));
+/**
+ * Prepare an adder for simulation, or fail the design with its lint report.
+ * The options come back too, so threads get the same map and delay table
+ * without the files being read again.
+ */
+function prepare(args: CliArgs): { adder: PreparedAdder; lint: LintResult; opts: ReturnType<typeof options> } {
+  const opts = options(args);
+  const prepared = prepareAdder(loadDesign(args), opts);
   if (!prepared.adder) throw new DesignFailure(lintJson(prepared.lint), formatLint(prepared.lint));
-  return { adder: prepared.adder, lint: prepared.lint };
+  return { adder: prepared.adder, lint: prepared.lint, opts };
 }
 
 function runLint(args: CliArgs): Output {
@@ -91,7 +96,7 @@ function runLint(args: CliArgs): Output {
 }
 
 async function runSim(args: CliArgs): Promise<Output> {
-  const { adder } = prepare(args);
+  const { adder, opts } = prepare(args);
   const mode = args.transport ? 'transport' : 'inertial';
   const text = readText(args.vectors!, 'vectors');
   const width = adder.ports.width;
@@ -102,12 +107,12 @@ async function runSim(args: CliArgs): Promise<Output> {
     writeText(args.vcd, traced.vcd);
     return { json: () => new JsonChunks(simJsonChunks(traced.steps.map(stepJson))), text: () => formatSim(traced.steps, width) };
   }
-  const request = { design: adder.design, ...options(args), mode, text, fileName: args.vectors! } as const;
+  const request = { design: adder.design, ...opts, mode, text, fileName: args.vectors! } as const;
   if (args.json) {
-    const run = await simulateVectorFile(import.meta.url, { ...request, form: 'json' }, args.threads);
+    const run = await simulateVectorFile(import.meta.url, { ...request, form: 'json' }, args.threads, adder);
     return { json: () => new JsonChunks(simJsonChunks(run.json)), text: () => '' };
   }
-  const run = await simulateVectorFile(import.meta.url, { ...request, form: 'steps' }, args.threads);
+  const run = await simulateVectorFile(import.meta.url, { ...request, form: 'steps' }, args.threads, adder);
   return { json: () => null, text: () => formatSim(run.steps, width) };
 }
 
@@ -117,11 +122,11 @@ async function runSim(args: CliArgs): Promise<Output> {
  * design (exit 1) with its counterexample.
  */
 async function runVerify(args: CliArgs): Promise<Output> {
-  const { adder } = prepare(args);
+  const { adder, opts } = prepare(args);
   const asked = args.verify ?? (vectorSpaceBits(adder.ports) <= QUICK_EXHAUSTIVE_BITS ? { mode: 'exhaustive' as const } : { mode: 'proof' as const, method: 'auto' as const });
   const result = await withProgress(`verify (${asked.mode})`, asked.mode === 'proof' ? 'cells' : 'vectors', (onProgress) =>
     asked.mode === 'exhaustive'
-      ? verifyExhaustiveParallel(import.meta.url, { design: adder.design, ...options(args) }, args.threads, { hooks: { onProgress } })
+      ? verifyExhaustiveParallel(import.meta.url, { design: adder.design, ...opts }, args.threads, { hooks: { onProgress }, prepared: adder })
       : asked.mode === 'random'
         ? verifyRandom(adder, { count: asked.count, seed: args.seed ?? 1n }, { onProgress })
         : proveAdder(adder, { method: asked.method }, { onProgress }),

@@ -57,9 +57,8 @@ type PieceResult =
   | { ok: true; count: number; json: Uint8Array[]; steps: AdderStep[] }
   | { ok: false; code: string; message: string };
 
-/** Claims and runs pieces on this thread until none is left, handing each result to `done`. */
-function runPieces(work: Work, done: (index: number, result: PieceResult) => void): void {
-  let adder: PreparedAdder | undefined;
+/** Claims and runs pieces on this thread until none is left, handing each result to `done`; `adder`: the design already prepared here. */
+function runPieces(work: Work, done: (index: number, result: PieceResult) => void, adder?: PreparedAdder): void {
   for (let k = Atomics.add(work.claimed, 0, 1); k < work.pieces.length; k = Atomics.add(work.claimed, 0, 1)) {
     try {
       adder ??= prepareAdder(work.design, { map: work.map, delayTable: work.delayTable }).adder!;
@@ -147,12 +146,14 @@ export function splitVectorText(text: string, parts: number): Piece[] {
  * this one). The design must already have passed lint. `entry` is the URL
  * of the command line's main module, which calls `serveShard` when it
  * starts as a worker; run from TypeScript source (no bundle) it stays on
- * one thread.
+ * one thread. `prepared`: the request's design as the caller prepared it,
+ * so this thread need not lint and compile it again.
  */
 export async function simulateVectorFile(
   entry: string,
   request: SimRequest,
   threads = Math.min(4, availableParallelism()),
+  prepared?: PreparedAdder,
 ): Promise<{ count: number; json: Uint8Array[]; steps: AdderStep[] }> {
   const bundled = !entry.endsWith('.ts');
   const parallel = bundled && threads > 1 && request.text.length >= PARALLEL_MIN_BYTES;
@@ -180,7 +181,7 @@ export async function simulateVectorFile(
     }
   });
   try {
-    runPieces(work, take);
+    runPieces(work, take, prepared);
     if (left > 0) await finished;
   } finally {
     // A thread still starting when every piece is done has nothing left to do.

@@ -18,7 +18,7 @@ import { pathToFileURL } from 'node:url';
 import { Worker, parentPort, workerData } from 'node:worker_threads';
 import { EngineError } from '../engine/errors';
 import type { DelayTable, Design, PortMap } from '../engine/model';
-import { prepareAdder, vectorSpaceBits } from '../engine/pipeline';
+import { prepareAdder, vectorSpaceBits, type PreparedAdder } from '../engine/pipeline';
 import { verifyExhaustive, type Backend } from '../engine/verify/bitsliced';
 import type { VerifyHooks, VerifyResult } from '../engine/verify/result';
 import { mergeShardResults, shardCount } from '../engine/verify/shards';
@@ -36,6 +36,8 @@ export interface VerifyRequest {
 
 export interface ParallelOptions {
   hooks?: VerifyHooks;
+  /** The request's design as the caller prepared it: this thread then neither lints nor compiles it again. */
+  prepared?: PreparedAdder;
   /** Spaces smaller than this run on one thread (default PARALLEL_MIN_VECTORS). */
   minVectors?: number;
 }
@@ -63,16 +65,24 @@ export function isVerifyShard(data: unknown): boolean {
   return typeof data === 'object' && data !== null && (data as { tag?: unknown }).tag === JOB_TAG;
 }
 
-/** `local`: this thread's shard reports progress over all shards and passes a cancel on to the others. */
-function runShard(job: ShardJob, local: { onProgress?: (done: number) => void; shouldStop?: () => boolean } = {}): ShardResult {
+/** The shard job's design, ready to verify. */
+function prepareRequest(request: VerifyRequest): PreparedAdder {
+  const prepared = prepareAdder(request.design, { map: request.map, delayTable: request.delayTable });
+  if (!prepared.adder) throw new EngineError('lint', 'the design has lint errors: run lint first');
+  return prepared.adder;
+}
+
+/**
+ * `local`: this thread's shard reports progress over all shards and passes
+ * a cancel on to the others; `adder`: the design already prepared here.
+ */
+function runShard(job: ShardJob, local: { onProgress?: (done: number) => void; shouldStop?: () => boolean } = {}, adder?: PreparedAdder): ShardResult {
   const control = new Int32Array(job.control);
   const progress = new Float64Array(job.progress);
   const me = job.shard.index;
   try {
-    const prepared = prepareAdder(job.request.design, { map: job.request.map, delayTable: job.request.delayTable });
-    if (!prepared.adder) throw new EngineError('lint', 'the design has lint errors: run lint first');
     const result = verifyExhaustive(
-      prepared.adder,
+      adder ?? prepareRequest(job.request),
       { shard: job.shard, backend: job.request.backend },
       {
         onProgress: (done) => {
@@ -148,9 +158,8 @@ export async function verifyExhaustiveParallel(
   opts: ParallelOptions = {},
 ): Promise<VerifyResult> {
   const t0 = performance.now();
-  const prepared = prepareAdder(request.design, { map: request.map, delayTable: request.delayTable });
-  if (!prepared.adder) throw new EngineError('lint', 'the design has lint errors: run lint first');
-  const total = 2 ** vectorSpaceBits(prepared.adder.ports);
+  const adder = opts.prepared ?? prepareRequest(request);
+  const total = 2 ** vectorSpaceBits(adder.ports);
   const parts = shardCount(total, threads, opts.minVectors);
   const control = new SharedArrayBuffer(8);
   new Int32Array(control)[FIRST_FOUND] = parts;
@@ -158,7 +167,7 @@ export async function verifyExhaustiveParallel(
   const jobs: ShardJob[] = Array.from({ length: parts }, (_, index) => ({ tag: JOB_TAG, request, shard: { index, count: parts }, control, progress }));
   const pending = jobs.slice(1).map((job) => runShardInThread(entry, job));
   const hooks = opts.hooks ?? {};
-  const first = runShard(jobs[0], { onProgress: (done) => hooks.onProgress?.(done, total), shouldStop: hooks.shouldStop });
+  const first = runShard(jobs[0], { onProgress: (done) => hooks.onProgress?.(done, total), shouldStop: hooks.shouldStop }, adder);
   const results = [first, ...(await Promise.all(pending))];
   const failed = results.find((r) => !r.ok);
   if (failed && !failed.ok) throw new EngineError(failed.code, failed.message);
