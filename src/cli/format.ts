@@ -4,9 +4,12 @@ import type { PathEntry } from '../engine/flat';
 import type { LintResult } from '../engine/lint';
 import type { PairSearch, TimingReport } from '../engine/slowest';
 import type { SweepReport } from '../engine/sweep';
-import type { VerifyResult } from '../engine/verify/result';
+import { verifyHow, type VerifyResult } from '../engine/verify/result';
 
 export const hex = (v: bigint): string => '0x' + v.toString(16);
+
+/** A vector as SPEC §7 writes it: hex strings. */
+export const vectorJson = (v: { a: bigint; b: bigint; cin: bigint }) => ({ a: hex(v.a), b: hex(v.b), cin: hex(v.cin) });
 
 export const pathJson = (path: PathEntry[]) => path.map((p) => ({ net: p.net, cell: p.cell, time: p.time }));
 
@@ -198,29 +201,20 @@ export function verifyJson(r: VerifyResult) {
     mode: r.mode,
     vectors: r.vectors,
     seed: r.seed === null ? null : r.seed.toString(),
-    counterexample: cx && { a: hex(cx.a), b: hex(cx.b), cin: hex(cx.cin), expected: hex(cx.expected), actual: hex(cx.actual), bits: cx.bits },
+    counterexample: cx && { ...vectorJson(cx), expected: hex(cx.expected), actual: hex(cx.actual), bits: cx.bits },
     elapsedMs: Math.round(r.elapsedMs),
     ...(r.method ? { method: r.method } : {}),
   };
 }
 
-const METHOD_WORDS = { bdd: 'a binary decision diagram', sat: 'a SAT solver' } as const;
-
 export function formatVerify(r: VerifyResult, width: number): string {
-  const count = r.vectors.toLocaleString('en-US');
   const ms = `${Math.round(r.elapsedMs)} ms`;
   const cx = r.counterexample;
   if (!cx) {
-    if (r.mode === 'random') return `no mismatch in ${count} random vectors, seed ${r.seed} (${ms}); random vectors cannot prove equivalence: use --prove`;
-    const how = r.mode === 'proof' ? `proved by ${METHOD_WORDS[r.method ?? 'bdd']}` : `all ${count} vectors tried`;
-    return `equivalent: the sum equals A + B + cin for every A, B and carry-in (${how}, ${ms})`;
+    if (r.mode === 'random') return `no mismatch in ${verifyHow(r)} (${ms}); random vectors cannot prove equivalence: use --prove`;
+    return `equivalent: the sum equals A + B + cin for every A, B and carry-in (${verifyHow(r)}, ${ms})`;
   }
-  const how =
-    r.mode === 'proof'
-      ? `found by ${METHOD_WORDS[r.method ?? 'bdd']}`
-      : r.mode === 'exhaustive'
-        ? `vector ${count} in order`
-        : `random vector ${count}, seed ${r.seed}`;
+  const how = verifyHow(r);
   const bitWord = (i: number) => (i === width ? `${i} (carry-out)` : String(i));
   return [
     `NOT equivalent: the sum differs from A + B + cin (${how}, ${ms})`,
@@ -233,8 +227,6 @@ export function formatVerify(r: VerifyResult, width: number): string {
     'The vector above was replayed in the simulator; try it with `sim --vectors`.',
   ].join('\n');
 }
-
-const vectorJson = (v: { a: bigint; b: bigint; cin: bigint }) => ({ a: hex(v.a), b: hex(v.b), cin: hex(v.cin) });
 
 /** `sweep --json`: one entry per block choice, the best by simulation and by the model, and the closed-form optimum. */
 export function sweepJson(r: SweepReport) {

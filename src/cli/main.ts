@@ -28,7 +28,7 @@ import { isMainThread, workerData } from 'node:worker_threads';
 import { serveShard, simulateVectorFile } from './parallel-sim';
 import { parseCli, UsageError, USAGE, type CliArgs } from './args';
 import { withProgress } from './progress';
-import { formatLint, formatSim, formatSweep, formatTiming, formatVerify, hex, JsonChunks, pathJson, simJsonChunks, stepJson, sweepJson, verifyJson } from './format';
+import { formatLint, formatSim, formatSweep, formatTiming, formatVerify, JsonChunks, pathJson, simJsonChunks, stepJson, sweepJson, vectorJson, verifyJson } from './format';
 
 /** A failed check of the design (exit 1), with what to print. */
 class DesignFailure {
@@ -152,8 +152,8 @@ async function runTiming(args: CliArgs): Promise<Output> {
       topological: { delay: report.topological.delay, path: pathJson(report.topological.path) },
       worst: report.worst && {
         delay: report.worst.delay,
-        from: { a: hex(report.worst.from.a), b: hex(report.worst.from.b), cin: hex(report.worst.from.cin) },
-        to: { a: hex(report.worst.to.a), b: hex(report.worst.to.b), cin: hex(report.worst.to.cin) },
+        from: vectorJson(report.worst.from),
+        to: vectorJson(report.worst.to),
         path: pathJson(report.worst.path),
       },
       pairs: report.pairs,

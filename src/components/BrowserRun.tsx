@@ -7,7 +7,7 @@ import { useMemo, useState, type FormEvent, type ReactNode } from 'react';
 import { vectorSpaceBits } from '../engine/pipeline';
 import type { TimingReport } from '../engine/slowest';
 import type { Counterexample, VerifyResult } from '../engine/verify/result';
-import { QUICK_EXHAUSTIVE_BITS } from '../engine/verify/result';
+import { QUICK_EXHAUSTIVE_BITS, verifyHow } from '../engine/verify/result';
 import { revisionSourceName, type RevisionFormat } from '../lib/rules';
 import { type BrowserRunRequest, type ProgressUnit } from './engine-client';
 import { delay } from './format';
@@ -239,8 +239,6 @@ function RunResult({ state, adder }: { state: BrowserRunState; adder: CheckedAdd
   );
 }
 
-const METHOD_WORDS = { bdd: 'a binary decision diagram', sat: 'a SAT solver' } as const;
-
 function VerifyOutcome({ result, adder }: { result: VerifyResult; adder: CheckedAdder }) {
   const ms = `${grouped(Math.round(result.elapsedMs))} ms`;
   const cx = result.counterexample;
@@ -262,17 +260,11 @@ function VerifyOutcome({ result, adder }: { result: VerifyResult; adder: Checked
     }
     return (
       <Verdict tone="ok" icon="✓">
-        Equivalent: the sum equals A + B + cin for every A, B and carry-in (
-        {result.mode === 'proof' ? `proved by ${METHOD_WORDS[result.method ?? 'bdd']}` : `all ${plural(result.vectors, 'vector')} tried`}, {ms}).
+        Equivalent: the sum equals A + B + cin for every A, B and carry-in ({verifyHow(result)}, {ms}).
       </Verdict>
     );
   }
-  const where =
-    result.mode === 'proof'
-      ? `found by ${METHOD_WORDS[result.method ?? 'bdd']}`
-      : result.mode === 'exhaustive'
-        ? `vector ${grouped(result.vectors)} in order`
-        : `random vector ${grouped(result.vectors)}, seed ${String(result.seed)}`;
+  const where = verifyHow(result);
   return (
     <>
       <Verdict tone="bad" icon="✕">

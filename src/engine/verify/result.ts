@@ -73,3 +73,19 @@ export function replayCounterexample(adder: PreparedAdder, v: Vector): Counterex
   if (actual === expected) return null;
   return { a: v.a, b: v.b, cin, expected, actual, bits: differingBits(expected, actual) };
 }
+
+const METHOD_WORDS = { bdd: 'a binary decision diagram', sat: 'a SAT solver' } as const;
+
+/**
+ * How a finished result was reached, in words for people: "all 131,072
+ * vectors tried", "proved by a SAT solver", "vector 384 in order",
+ * "random vector 25,130, seed 1". The command line and the browser panel
+ * both say it this way.
+ */
+export function verifyHow(r: VerifyResult): string {
+  const count = r.vectors.toLocaleString('en-US');
+  const found = r.counterexample !== null;
+  if (r.mode === 'proof') return `${found ? 'found' : 'proved'} by ${METHOD_WORDS[r.method ?? 'bdd']}`;
+  if (r.mode === 'exhaustive') return found ? `vector ${count} in order` : `all ${count} vector${r.vectors === 1 ? '' : 's'} tried`;
+  return found ? `random vector ${count}, seed ${r.seed}` : `${count} random vector${r.vectors === 1 ? '' : 's'}, seed ${r.seed}`;
+}
