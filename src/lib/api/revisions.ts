@@ -124,6 +124,46 @@ export async function revisionRef(db: Pick<Db, 'select'>, revisionId: string) {
 
 export const sha256 = (text: string) => crypto.createHash('sha256').update(text, 'utf8').digest('hex');
 
+export interface NewRevision {
+  id: string;
+  projectId: string | null;
+  netlistId: string;
+  netlistName: string | null;
+  number: number;
+  format: RevisionFormat;
+  filename: string | null;
+  message: string;
+  content: string;
+  authorId: string;
+  createdAt: Date;
+}
+
+/** Store a revision (hash and size from its content) and its audit event; the upload route and the demo seed both use it. */
+export async function recordRevision(tx: Pick<Db, 'insert'>, r: NewRevision): Promise<void> {
+  const contentHash = sha256(r.content);
+  await tx.insert(revisions).values({
+    id: r.id,
+    netlistId: r.netlistId,
+    number: r.number,
+    format: r.format,
+    filename: r.filename,
+    message: r.message,
+    content: r.content,
+    contentHash,
+    sizeBytes: Buffer.byteLength(r.content, 'utf8'),
+    authorId: r.authorId,
+    createdAt: r.createdAt,
+  });
+  await recordAudit(tx, {
+    projectId: r.projectId,
+    actorId: r.authorId,
+    action: 'revision.created',
+    objectType: 'revision',
+    objectId: r.id,
+    details: { netlistId: r.netlistId, netlist: r.netlistName, number: r.number, contentHash, format: r.format },
+  });
+}
+
 const summary = {
   id: revisions.id,
   netlistId: revisions.netlistId,
@@ -161,26 +201,18 @@ export const createRevision = route({ params: idParams, scope: { type: 'netlist'
       .get();
     if (latest?.hash === hash) throw fail.conflict(`This content is identical to r${latest.number}; nothing to record.`);
     const n = (latest?.number ?? 0) + 1;
-    await tx.insert(revisions).values({
+    await recordRevision(tx, {
       id,
+      projectId: scope.projectId,
       netlistId: params.id,
+      netlistName,
       number: n,
       format: inc.format,
       filename: inc.filename,
       message: inc.message,
       content: inc.content,
-      contentHash: hash,
-      sizeBytes: Buffer.byteLength(inc.content, 'utf8'),
       authorId: me.id,
       createdAt: new Date(),
-    });
-    await recordAudit(tx, {
-      projectId: scope.projectId,
-      actorId: me.id,
-      action: 'revision.created',
-      objectType: 'revision',
-      objectId: id,
-      details: { netlistId: params.id, netlist: netlistName, number: n, contentHash: hash, format: inc.format },
     });
     return n;
   });
